@@ -1,0 +1,46 @@
+"""compromise: choose the scales, fluid and temperature of a physical flow model.
+
+The public surface is small; the modules behind it each hold one idea (see DEVELOPERS.md).
+Heavy libraries are imported lazily, so importing the package is cheap.
+"""
+
+from __future__ import annotations
+
+from typing import TYPE_CHECKING, Any
+
+__version__ = "0.1.0"
+
+__all__ = [
+    "__version__",
+    "derive_groups",
+    "evaluate_design",
+    "get_fluid",
+    "load_case",
+    "scale_table",
+    "solve",
+]
+
+_LAZY = {
+    "load_case": "compromise.case",
+    "case_from_dict": "compromise.case",
+    "get_fluid": "compromise.fluids",
+    "derive_groups": "compromise.groups",
+    "scale_table": "compromise.design",
+    "evaluate_design": "compromise.design",
+    "solve": "compromise.solver",
+}
+
+if TYPE_CHECKING:  # pragma: no cover
+    from compromise.case import case_from_dict, load_case
+    from compromise.design import evaluate_design, scale_table
+    from compromise.fluids import get_fluid
+    from compromise.groups import derive_groups
+    from compromise.solver import solve
+
+
+def __getattr__(name: str) -> Any:
+    if name in _LAZY:
+        import importlib
+
+        return getattr(importlib.import_module(_LAZY[name]), name)
+    raise AttributeError(f"module 'compromise' has no attribute {name!r}")

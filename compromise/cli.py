@@ -1,0 +1,370 @@
+"""The ``compromise`` command: parses, calls the library, prints. No physics here.
+
+Exit status: 0 answered, 1 infeasible (an answer with its diagnosis), 2 bad input.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+import sys
+from pathlib import Path
+from typing import Annotated, Any
+
+import typer
+
+app = typer.Typer(
+    name="compromise",
+    help="Choose the length ratio, distortion, model fluid and temperature of a physical flow "
+    "model inside a laboratory's limits, and defend the choice.",
+    context_settings={"help_option_names": ["-h", "--help"]},
+    add_completion=False,
+    no_args_is_help=True,
+    pretty_exceptions_enable=False,
+)
+
+CaseArg = Annotated[Path, typer.Argument(help="The case file (TOML).", show_default=False)]
+JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object (SI units, degC).")]
+
+
+def _version(value: bool) -> None:
+    if value:
+        from compromise import __version__
+
+        typer.echo(f"compromise {__version__}")
+        raise typer.Exit()
+
+
+@app.callback()
+def _main(
+    version: Annotated[
+        bool,
+        typer.Option("--version", callback=_version, is_eager=True, help="Print the version."),
+    ] = False,
+) -> None:
+    """Choose the scales of a physical flow model within a laboratory's limits."""
+
+
+def _clean(obj: Any) -> Any:
+    """JSON-safe copy: non-finite floats become null."""
+    if isinstance(obj, float):
+        return obj if math.isfinite(obj) else None
+    if isinstance(obj, dict):
+        return {str(k): _clean(v) for k, v in obj.items()}
+    if isinstance(obj, list | tuple):
+        return [_clean(v) for v in obj]
+    return obj
+
+
+def _print_json(data: Any) -> None:
+    typer.echo(json.dumps(_clean(data), indent=2, allow_nan=False))
+
+
+def _fail(lines: list[str]) -> None:
+    for line in lines:
+        typer.echo(f"error: {line}", err=True)
+    raise typer.Exit(2)
+
+
+def _guard(fn: Any) -> Any:
+    """Run a command body; turn compromise's errors into one line each and exit status 2."""
+    from compromise.errors import CaseError, CaseErrors, CompromiseError
+
+    try:
+        return fn()
+    except CaseErrors as exc:
+        _fail([e.line() for e in exc.errors])
+    except CaseError as exc:
+        _fail([exc.line()])
+    except CompromiseError as exc:
+        _fail([str(exc)])
+    return None
+
+
+def _load(path: Path) -> Any:
+    from compromise.case import load_case
+
+    return load_case(path)
+
+
+def _temperature(text: str, option: str) -> float:
+    from compromise.errors import CaseError
+    from compromise.units import parse_quantity
+
+    try:
+        value, dim, _ = parse_quantity(text)
+    except ValueError as exc:
+        raise CaseError(str(exc), key=option) from None
+    if dim != (0, 0, 0, 1):
+        raise CaseError(f"expected a temperature such as '20 degC', got {text!r}", key=option)
+    return value
+
+
+def _pressure(text: str, option: str) -> float:
+    from compromise.errors import CaseError
+    from compromise.units import parse_quantity
+
+    try:
+        value, dim, _ = parse_quantity(text)
+    except ValueError as exc:
+        raise CaseError(str(exc), key=option) from None
+    if dim != (1, -1, -2, 0) or value <= 0:
+        raise CaseError(f"expected a positive pressure such as '101325 Pa', got {text!r}",
+                        key=option)
+    return value
+
+
+@app.command()
+def check(case: CaseArg, json_out: JsonOpt = False) -> None:
+    """Validate a case file and print what it says: quantities, groups, choices, limits."""
+
+    def body() -> None:
+        from compromise.problem import prototype_group_values
+        from compromise.report import format_check
+
+        c = _load(case)
+        summary = c.summary()
+        values = prototype_group_values(c)
+        summary["group_values"] = {k: float(v[0]) for k, v in values.items()}
+        if json_out:
+            _print_json(summary)
+        else:
+            typer.echo(format_check(summary, str(case)))
+
+    _guard(body)
+
+
+@app.command()
+def solve(
+    case: CaseArg,
+    json_out: JsonOpt = False,
+    csv: Annotated[
+        Path | None,
+        typer.Option("--csv", help="Also write the tables as CSV files into this folder.",
+                     show_default=False),
+    ] = None,
+) -> None:
+    """Find the design with the least weighted mismatch within every limit."""
+
+    def body() -> int:
+        from compromise.report import format_solution
+        from compromise.solver import solve as run
+
+        sol = run(_load(case))
+        data = sol.to_dict()
+        if csv is not None:
+            from compromise.report import write_csv
+
+            write_csv(data, csv)
+        if json_out:
+            _print_json(data)
+        else:
+            typer.echo(format_solution(data))
+        return 0 if sol.feasible else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
+@app.command()
+def scales(
+    case: CaseArg,
+    ratio: Annotated[str, typer.Option("--ratio", help="Horizontal length ratio, e.g. 1:25.")],
+    vertical: Annotated[
+        str | None,
+        typer.Option("--vertical", help="Vertical length ratio for a distorted model, e.g. 1:5.",
+                     show_default=False),
+    ] = None,
+    velocity: Annotated[
+        str,
+        typer.Option("--velocity", help="How velocity scales: 'froude', 'reynolds', another "
+                     "group of the case kept exactly, or the velocity ratio itself."),
+    ] = "froude",
+    fluid: Annotated[
+        str | None,
+        typer.Option("--fluid", help="Model fluid (default: the prototype's).", show_default=False),
+    ] = None,
+    temperature: Annotated[
+        str | None,
+        typer.Option("--temperature", help="Model fluid temperature, e.g. '20 degC' "
+                     "(default: the prototype's).", show_default=False),
+    ] = None,
+    pressure: Annotated[
+        str | None,
+        typer.Option("--pressure", help="Model fluid pressure for a gas, e.g. '5 bar'.",
+                     show_default=False),
+    ] = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """Print the scale ratio of every kind of quantity, and the case's quantities and groups."""
+
+    def body() -> None:
+        from compromise.design import scale_table
+        from compromise.errors import CaseError
+        from compromise.report import format_scales
+        from compromise.units import parse_ratio
+
+        c = _load(case)
+        try:
+            r = parse_ratio(ratio)
+        except ValueError as exc:
+            raise CaseError(str(exc), key="--ratio") from None
+        try:
+            vr = parse_ratio(vertical) if vertical is not None else None
+        except ValueError as exc:
+            raise CaseError(str(exc), key="--vertical") from None
+        vel: str | float = velocity
+        if velocity.lower() not in c.groups and velocity.lower() not in ("froude", "reynolds"):
+            try:
+                vel = parse_ratio(velocity)
+            except ValueError:
+                raise CaseError(f"expected 'froude', 'reynolds', a group of the case or a "
+                                f"ratio, got {velocity!r}", key="--velocity") from None
+        f = None
+        if fluid is not None:
+            from compromise.errors import UnknownFluidError
+            from compromise.fluids import get_fluid
+
+            try:
+                f = get_fluid(fluid).name
+            except UnknownFluidError as exc:
+                raise CaseError(str(exc), key="--fluid") from None
+        t = _temperature(temperature, "--temperature") if temperature else None
+        p = _pressure(pressure, "--pressure") if pressure else None
+        if f is not None or t is not None:
+            from compromise.errors import FluidRangeError
+            from compromise.fluids import get_fluid
+
+            try:
+                get_fluid(f or c.fluid).check(t if t is not None else c.temperature,
+                                              p if p is not None else c.pressure)
+            except FluidRangeError as exc:
+                raise CaseError(str(exc), key="--temperature") from None
+        tab = scale_table(c, r, vertical=vr, velocity=vel, fluid=f, temperature=t, pressure=p)
+        if json_out:
+            _print_json(tab.to_dict())
+        else:
+            typer.echo(format_scales(tab.to_dict()))
+
+    _guard(body)
+
+
+@app.command()
+def fluids(
+    temperature: Annotated[
+        str, typer.Option("--temperature", help="Temperature, e.g. '20 degC'.")
+    ] = "20 degC",
+    pressure: Annotated[
+        str, typer.Option("--pressure", help="Pressure, e.g. '101325 Pa' or '1 atm'.")
+    ] = "101325 Pa",
+    json_out: JsonOpt = False,
+) -> None:
+    """List the fluid catalogue with its properties at one temperature and pressure."""
+
+    def body() -> None:
+        from compromise.fluids import catalogue
+        from compromise.report import format_fluids
+        from compromise.units import to_celsius
+
+        t = _temperature(temperature, "--temperature")
+        p = _pressure(pressure, "--pressure")
+        cat = catalogue(t, p)
+        data = {}
+        for name, props in cat.items():
+            if props is None:
+                data[name] = None
+                continue
+            d = props.to_dict()
+            data[name] = {k: d[k] for k in ("density", "dynamic_viscosity", "kinematic_viscosity",
+                                            "surface_tension", "speed_of_sound",
+                                            "vapour_pressure")}
+        if json_out:
+            _print_json(data)
+        else:
+            typer.echo(format_fluids(data, to_celsius(t)))
+
+    _guard(body)
+
+
+@app.command()
+def groups(
+    derive: Annotated[
+        bool, typer.Option("--derive", help="Derive a complete set of groups (Buckingham pi) "
+                           "from variables given with --var or from a case.")
+    ] = False,
+    var: Annotated[
+        list[str] | None,
+        typer.Option("--var", help="A variable and its units, e.g. 'dp=Pa' or 'rho=kg/m^3' "
+                     "(repeat the option).", show_default=False),
+    ] = None,
+    repeating: Annotated[
+        str | None,
+        typer.Option("--repeating", help="Comma-separated repeating variables, e.g. 'rho,V,D'.",
+                     show_default=False),
+    ] = None,
+    case: Annotated[
+        Path | None,
+        typer.Option("--case", help="Take the variables from a case's quantities and fluid "
+                     "properties.", show_default=False),
+    ] = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """List the built-in dimensionless groups, or derive a set with the Buckingham pi theorem."""
+
+    def body() -> None:
+        from compromise.errors import CaseError
+        from compromise.groups import BUILTIN_GROUPS, derive_groups
+        from compromise.report import table
+
+        if not derive:
+            if json_out:
+                _print_json({n: {"symbol": g.symbol, "expression": g.expression,
+                                 "forces": g.forces, "meaning": g.meaning,
+                                 "references": list(g.references)}
+                             for n, g in BUILTIN_GROUPS.items()})
+            else:
+                rows = [[n, g.symbol, g.expression, g.forces] for n, g in BUILTIN_GROUPS.items()]
+                typer.echo(table(["group", "symbol", "expression (L: characteristic length)",
+                                  "ratio of"], rows))
+            return
+        variables: dict[str, tuple[int, ...]] = {}
+        if case is not None:
+            from compromise.expr import PROPERTY_DIMENSIONS
+
+            c = _load(case)
+            variables.update({n: q.dimension for n, q in c.quantities.items()})
+            variables.update({n: tuple(int(x) for x in d) for n, d in PROPERTY_DIMENSIONS.items()})
+        for item in var or []:
+            from compromise.units import parse_quantity
+
+            name, sep, unit = item.partition("=")
+            if not sep or not name.strip().isidentifier():
+                raise CaseError(f"expected NAME=UNITS such as 'dp=Pa', got {item!r}", key="--var")
+            try:
+                _, dim, _ = parse_quantity(f"1 {unit.strip()}" if unit.strip() else "1")
+            except ValueError as exc:
+                raise CaseError(str(exc), key="--var") from None
+            variables[name.strip()] = dim
+        if len(variables) < 2:
+            raise CaseError("expected at least two variables (--var NAME=UNITS or --case)",
+                            key="--var")
+        rep = [r.strip() for r in repeating.split(",")] if repeating else None
+        try:
+            derived = derive_groups(variables, rep)
+        except ValueError as exc:
+            raise CaseError(str(exc), key="--repeating") from None
+        if json_out:
+            _print_json([d.to_dict() for d in derived])
+        else:
+            for i, d in enumerate(derived, 1):
+                typer.echo(f"Pi_{i} = {d.to_text()}")
+
+    _guard(body)
+
+
+def main() -> None:
+    """Entry point of the ``compromise`` command."""
+    try:
+        app()
+    except KeyboardInterrupt:  # pragma: no cover
+        sys.exit(130)

@@ -1,0 +1,200 @@
+"""Fallback for groups that are not power products (a custom expression with a sum, a log).
+
+Such a group's log-mismatch is not linear in the log-ratios, so the subproblem is no longer a
+convex QP. The fallback keeps the exact machinery for everything else: for every fluid and grid
+temperature it solves the convex part exactly, ranks those points by the full objective, then
+runs SLSQP on the full problem (log-ratios, temperature and, for a gas, log-pressure) from the
+best few of them, and keeps the best feasible result. Multi-start is the verification: the
+answer is the best of several independent local solves.
+"""
+
+from __future__ import annotations
+
+import math
+from typing import TYPE_CHECKING
+
+import numpy as np
+
+from compromise import expr as ex
+from compromise.design import Design, evaluate_design
+from compromise.problem import PROPERTY_NAMES, Problem, property_environment
+from compromise.scaling import N_DECISION
+
+if TYPE_CHECKING:
+    from compromise.case import Case
+    from compromise.solver import FluidStates, Solution
+
+N_STARTS = 4
+
+
+class FullObjective:
+    """Objective and nonlinear constraints of the full problem for one model fluid."""
+
+    def __init__(self, case: Case, problem: Problem, fs: FluidStates) -> None:
+        from compromise.fluids import get_fluid
+
+        self.case, self.problem, self.fs = case, problem, fs
+        proto = property_environment(get_fluid(case.fluid).properties(case.temperature,
+                                                                      case.pressure))
+        self.proto_props = proto
+        self.values = [case.values(i) for i in range(len(case.conditions))]
+        self.names = problem.nonlinear_groups
+        self.groups = [case.groups[n] for n in self.names]
+        self.proto_group = [
+            [float(ex.evaluate(g.expression, {**vals, **proto})) for g in self.groups]
+            for vals in self.values
+        ]
+        self.scalings = {n: q.scaling for n, q in case.quantities.items()}
+
+    def group_values(self, y: np.ndarray, p: np.ndarray) -> list[list[float]]:
+        """Model values of the nonlinear groups, per condition."""
+        out = []
+        props = {n: self.proto_props[n] * math.exp(p[i]) for i, n in enumerate(PROPERTY_NAMES)}
+        for vals in self.values:
+            env = dict(props)
+            for n, s in self.scalings.items():
+                env[n] = vals[n] * math.exp(float(s[:N_DECISION] @ y + s[N_DECISION:] @ p))
+            out.append([float(ex.evaluate(g.expression, env)) for g in self.groups])
+        return out
+
+    def __call__(self, y: np.ndarray, p: np.ndarray) -> float:
+        """Full objective: convex part plus the nonlinear groups' weighted squared mismatches."""
+        pr = self.problem
+        r = pr.A @ y + pr.B @ p
+        total = float(np.sum(pr.W * r**2))
+        for c, (model, proto) in enumerate(zip(self.group_values(y, p), self.proto_group,
+                                               strict=True)):
+            w = self.case.conditions[c].weight
+            for g, mv, pv in zip(self.groups, model, proto, strict=True):
+                if g.exact or g.weight == 0:
+                    continue
+                if mv <= 0 or pv <= 0:
+                    return math.inf
+                total += w * g.weight * math.log(mv / pv) ** 2
+        return total
+
+    def constraints(self, y: np.ndarray, p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """(inequalities >= 0, equalities = 0) of the nonlinear groups, in log space."""
+        ineq, eq = [], []
+        for model, proto in zip(self.group_values(y, p), self.proto_group, strict=True):
+            for g, mv, pv in zip(self.groups, model, proto, strict=True):
+                lm = math.log(mv) if mv > 0 else -1e3
+                if g.min is not None:
+                    ineq.append(lm - math.log(g.min))
+                if g.max is not None:
+                    ineq.append(math.log(g.max) - lm)
+                if g.exact:
+                    eq.append(lm - (math.log(pv) if pv > 0 else 0.0))
+        return np.array(ineq), np.array(eq)
+
+
+def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[float, np.ndarray]:
+    """SLSQP on (x, z, v, t [, ln P]) from one start; returns (objective, variables)."""
+    from scipy.optimize import minimize
+
+    fs, pr = obj.fs, obj.problem
+    gas = fs.gas and fs.pressures().size > 1
+    t_lo, t_hi = fs.t_range
+    tscale = max(t_hi - t_lo, 1.0)
+
+    def unpack(u: np.ndarray) -> tuple[np.ndarray, float, float]:
+        t = t_lo + u[3] * tscale if t_hi > t_lo else t_lo
+        lp = u[4] if gas else lp0
+        return u[:3], t, lp
+
+    def p_of(t: float, lp: float) -> np.ndarray:
+        return fs.p(np.array([t]), math.exp(lp))[0]
+
+    def f(u: np.ndarray) -> float:
+        y, t, lp = unpack(u)
+        v = obj(y, p_of(t, lp))
+        return v if math.isfinite(v) else 1e6
+
+    def g_ineq(u: np.ndarray) -> np.ndarray:
+        y, t, lp = unpack(u)
+        p = p_of(t, lp)
+        h, _ = pr.rhs(p)
+        lin = h - pr.G @ y
+        nl, _ = obj.constraints(y, p)
+        return np.r_[lin, nl]
+
+    def g_eq(u: np.ndarray) -> np.ndarray:
+        y, t, lp = unpack(u)
+        p = p_of(t, lp)
+        _, e = pr.rhs(p)
+        _, nl = obj.constraints(y, p)
+        return np.r_[pr.E @ y - e, nl]
+
+    u0 = np.r_[y0, (t0 - t_lo) / tscale if t_hi > t_lo else 0.0]
+    bounds = [(None, None)] * 3 + [(0.0, 1.0)]
+    if gas:
+        lo, hi = fs.case.model.pressure
+        u0 = np.r_[u0, lp0]
+        bounds.append((math.log(lo), math.log(hi)))
+    cons = [{"type": "ineq", "fun": g_ineq}]
+    if pr.E.shape[0] or any(g.exact for g in obj.groups):
+        cons.append({"type": "eq", "fun": g_eq})
+    r = minimize(f, u0, method="SLSQP", bounds=bounds, constraints=cons,
+                 options={"ftol": 1e-14, "maxiter": 400})
+    u = r.x
+    ok = np.all(g_ineq(u) >= -1e-8)
+    if len(cons) > 1:
+        ok = ok and np.all(np.abs(g_eq(u)) <= 1e-8)
+    return (float(f(u)) if ok else math.inf), u
+
+
+def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int):  # noqa: ANN201
+    """Best state of one fluid for the full problem (or None when infeasible)."""
+    from compromise.solver import State, _grid
+
+    fs = obj.fs
+    t_lo, t_hi = fs.t_range
+    T = _grid(t_lo, t_hi, n_temperatures)
+    starts = []
+    for P in fs.pressures():
+        p_all = fs.p(T, P)
+        batch, _ = engine.solve(p_all)  # type: ignore[attr-defined]
+        for k in np.flatnonzero(batch.feasible):
+            starts.append((obj(batch.y[k], p_all[k]), batch.y[k], float(T[k]), math.log(P)))
+    if not starts:
+        return None
+    starts.sort(key=lambda s: s[0])
+    best = None
+    for _, y0, t0, lp0 in starts[:N_STARTS]:
+        val, u = _local(obj, y0, t0, lp0)
+        if math.isfinite(val) and (best is None or val < best[0] - 1e-15):
+            best = (val, u)
+    if best is None:
+        return None
+    val, u = best
+    t = t_lo + u[3] * max(t_hi - t_lo, 1.0) if t_hi > t_lo else t_lo
+    P = math.exp(u[4]) if fs.gas and fs.pressures().size > 1 else float(fs.pressures()[0])
+    return State(fs.name, float(t), float(P), u[:3].copy(), float(val))
+
+
+def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
+                    alternatives: bool) -> Solution:
+    """Solve a case that has groups which are not power products (see the module docstring)."""
+    from compromise.solver import Alternative, Engine, FluidStates, Solution, _design, _pick
+
+    engine = Engine(problem)
+    per_fluid = {}
+    for f in case.model.fluids:
+        fs = FluidStates(case, f, problem.used_properties)
+        per_fluid[f] = best_nonlinear_state(FullObjective(case, problem, fs), engine,
+                                            n_temperatures)
+    feasible = [s for s in per_fluid.values() if s is not None]
+    alts = tuple(sorted(
+        (Alternative("fluid", f, _design(s) if s else None, s.objective if s else math.inf,
+                     "" if s else "infeasible") for f, s in per_fluid.items()),
+        key=lambda a: (a.objective, a.label))) if alternatives else ()
+    if not feasible:
+        from compromise.diagnose import diagnose
+
+        states = {f: FluidStates(case, f, problem.used_properties) for f in case.model.fluids}
+        return Solution(case, "infeasible", math.inf, None, None, {}, alts,
+                        diagnose(problem, states))
+    best = _pick(feasible, case)
+    design: Design = _design(best)
+    ev = evaluate_design(case, design)
+    return Solution(case, "optimal", ev.objective, design, ev, {}, alts)

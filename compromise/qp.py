@@ -1,0 +1,155 @@
+"""Exact solution of many small convex quadratic programs that share their matrices.
+
+Every subproblem of the solver (one model fluid at one temperature) is
+
+    minimise   1/2 y' H y + f' y
+    subject to G y <= h,   E y = e
+
+with the same ``H``, ``G`` and ``E`` and only ``f``, ``h`` and ``e`` changing. With three
+variables the optimum's active set has at most three independent rows, so all candidate active
+sets can be enumerated once; for each, the KKT system is inverted once, and the solution of a
+subproblem for that active set is a matrix-vector product. The optimum of each subproblem is the
+best candidate that is feasible: for a strictly convex QP the optimum is the minimiser over the
+affine set of some linearly independent subset of its active rows (Caratheodory's theorem applied
+to the KKT conditions), so the search is exact, not heuristic.
+
+References
+----------
+Nocedal, J., Wright, S. J. (2006). *Numerical Optimization*, 2nd ed., ch. 16 (KKT conditions of
+quadratic programs, active sets), from memory.
+"""
+
+from __future__ import annotations
+
+import itertools
+from dataclasses import dataclass, field
+
+import numpy as np
+
+FEASIBILITY_TOL = 1e-9  # [-] on log-ratios
+
+
+@dataclass(frozen=True)
+class QPBatch:
+    """Solutions of a batch of subproblems.
+
+    Attributes
+    ----------
+    y : numpy.ndarray
+        (N, n) optimal points (nan where infeasible).
+    objective : numpy.ndarray
+        (N,) optimal values of ``1/2 y'Hy + f'y`` (inf where infeasible).
+    active : numpy.ndarray
+        (N,) index of the optimal candidate active set (-1 where infeasible).
+    """
+
+    y: np.ndarray
+    objective: np.ndarray
+    active: np.ndarray
+    feasible: np.ndarray = field(repr=False)
+
+
+class SmallQP:
+    """Enumerated active-set solver for a family of small strictly convex QPs.
+
+    Parameters
+    ----------
+    H : (n, n) array
+        Positive definite Hessian.
+    G : (m, n) array
+        Inequality normals.
+    E : (q, n) array
+        Equality normals.
+    """
+
+    def __init__(self, H: np.ndarray, G: np.ndarray, E: np.ndarray) -> None:
+        self.H = np.asarray(H, dtype=float)
+        self.G = np.asarray(G, dtype=float)
+        self.E = np.asarray(E, dtype=float)
+        n = self.H.shape[0]
+        m, q = self.G.shape[0], self.E.shape[0]
+        self.n, self.m, self.q = n, m, q
+        # an independent subset of the equality rows; the others are checked as feasibility
+        eq_keep: list[int] = []
+        for j in range(q):
+            trial = self.E[[*eq_keep, j]]
+            if np.linalg.matrix_rank(trial, tol=1e-10) == len(eq_keep) + 1:
+                eq_keep.append(j)
+        self.eq_keep = eq_keep
+        free = n - len(eq_keep)
+        r = n + q + m  # full right-hand side: [-f, e, h]
+        subsets: list[tuple[int, ...]] = []
+        maps: list[np.ndarray] = []
+        mults: list[np.ndarray] = []
+        for k in range(0, min(free, m) + 1):
+            for S in itertools.combinations(range(m), k):
+                C = np.vstack([self.E[eq_keep], self.G[list(S)]]) if (eq_keep or S) else np.zeros((0, n))
+                nc = C.shape[0]
+                if nc and np.linalg.matrix_rank(C, tol=1e-10) < nc:
+                    continue
+                K = np.zeros((n + nc, n + nc))
+                K[:n, :n] = self.H
+                K[:n, n:] = C.T
+                K[n:, :n] = C
+                try:
+                    Kinv = np.linalg.inv(K)
+                except np.linalg.LinAlgError:
+                    continue
+                # scatter columns into the full right-hand side layout
+                sel = np.zeros((n + nc, r))
+                sel[:n, :n] = np.eye(n)
+                for i, j in enumerate(eq_keep):
+                    sel[n + i, n + j] = 1.0
+                for i, j in enumerate(S):
+                    sel[n + len(eq_keep) + i, n + q + j] = 1.0
+                M = Kinv @ sel
+                subsets.append(S)
+                maps.append(M[:n])
+                # multipliers of the inequality rows of S, scattered to (m,)
+                L = np.zeros((m, r))
+                for i, j in enumerate(S):
+                    L[j] = M[n + len(eq_keep) + i]
+                mults.append(L)
+        self.subsets = subsets
+        self._maps = np.array(maps).reshape(len(maps) * n, r)
+        self._mults = np.array(mults)
+
+    def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> QPBatch:
+        """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
+        f = np.atleast_2d(np.asarray(f, dtype=float))
+        N = f.shape[0]
+        h = np.broadcast_to(np.asarray(h, dtype=float).reshape(-1, self.m) if self.m
+                            else np.zeros((1, 0)), (N, self.m))
+        e = np.broadcast_to(np.asarray(e, dtype=float).reshape(-1, self.q) if self.q
+                            else np.zeros((1, 0)), (N, self.q))
+        rhs = np.hstack([-f, e, h])  # (N, r)
+        ns = len(self.subsets)
+        Y = (self._maps @ rhs.T).reshape(ns, self.n, N).transpose(0, 2, 1)  # (s, N, n)
+        ok = np.ones((ns, N), dtype=bool)
+        if self.m:
+            slack = h[None] - Y @ self.G.T  # (s, N, m)
+            ok &= np.all(slack >= -FEASIBILITY_TOL * (1 + np.abs(h[None])), axis=2)
+        if self.q:
+            res = Y @ self.E.T - e[None]
+            ok &= np.all(np.abs(res) <= FEASIBILITY_TOL * (1 + np.abs(e[None])), axis=2)
+        obj = 0.5 * np.einsum("sni,ij,snj->sn", Y, self.H, Y) + np.einsum("sni,ni->sn", Y, f)
+        obj = np.where(ok, obj, np.inf)
+        best = np.argmin(obj, axis=0)
+        idx = np.arange(N)
+        feasible = np.isfinite(obj[best, idx])
+        y = np.where(feasible[:, None], Y[best, idx], np.nan)
+        return QPBatch(
+            y=y,
+            objective=np.where(feasible, obj[best, idx], np.inf),
+            active=np.where(feasible, best, -1),
+            feasible=feasible,
+        )
+
+    def multipliers(self, active: int, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> np.ndarray:
+        """Multipliers (m,) of the inequality rows for one solved subproblem (zero if inactive).
+
+        A multiplier is the rate at which the optimal value falls as that row's right-hand side
+        is raised.
+        """
+        rhs = np.concatenate([-np.asarray(f, float), np.asarray(e, float), np.asarray(h, float)])
+        return self._mults[active] @ rhs

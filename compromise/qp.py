@@ -78,41 +78,47 @@ class SmallQP:
         self.eq_keep = eq_keep
         free = n - len(eq_keep)
         r = n + q + m  # full right-hand side: [-f, e, h]
+        ne = len(eq_keep)
+        Ek = self.E[eq_keep]
         subsets: list[tuple[int, ...]] = []
         maps: list[np.ndarray] = []
         mults: list[np.ndarray] = []
         for k in range(0, min(free, m) + 1):
-            for S in itertools.combinations(range(m), k):
-                C = np.vstack([self.E[eq_keep], self.G[list(S)]]) if (eq_keep or S) else np.zeros((0, n))
-                nc = C.shape[0]
-                if nc and np.linalg.matrix_rank(C, tol=1e-10) < nc:
-                    continue
-                K = np.zeros((n + nc, n + nc))
-                K[:n, :n] = self.H
-                K[:n, n:] = C.T
-                K[n:, :n] = C
-                try:
-                    Kinv = np.linalg.inv(K)
-                except np.linalg.LinAlgError:
-                    continue
-                # scatter columns into the full right-hand side layout
-                sel = np.zeros((n + nc, r))
-                sel[:n, :n] = np.eye(n)
-                for i, j in enumerate(eq_keep):
-                    sel[n + i, n + j] = 1.0
-                for i, j in enumerate(S):
-                    sel[n + len(eq_keep) + i, n + q + j] = 1.0
-                M = Kinv @ sel
-                subsets.append(S)
-                maps.append(M[:n])
-                # multipliers of the inequality rows of S, scattered to (m,)
-                L = np.zeros((m, r))
-                for i, j in enumerate(S):
-                    L[j] = M[n + len(eq_keep) + i]
-                mults.append(L)
+            tuples = list(itertools.combinations(range(m), k))
+            combos = np.array(tuples, dtype=int).reshape(len(tuples), k)
+            nc = ne + k
+            C = np.concatenate([np.broadcast_to(Ek, (len(combos), ne, n)), self.G[combos]],
+                               axis=1)  # (s, nc, n)
+            if nc:
+                sv = np.linalg.svd(C, compute_uv=False)  # (s, nc)
+                ok = sv[:, -1] > 1e-10 * np.maximum(sv[:, 0], 1.0)
+                combos, C = combos[ok], C[ok]
+            if len(combos) == 0:
+                continue
+            ns = len(combos)
+            K = np.zeros((ns, n + nc, n + nc))
+            K[:, :n, :n] = self.H
+            K[:, :n, n:] = C.transpose(0, 2, 1)
+            K[:, n:, :n] = C
+            Kinv = np.linalg.inv(K)
+            # scatter the columns of Kinv into the full right-hand-side layout [-f, e, h]
+            M = np.zeros((ns, n + nc, r))
+            M[:, :, :n] = Kinv[:, :, :n]
+            for i, j in enumerate(eq_keep):
+                M[:, :, n + j] = Kinv[:, :, n + i]
+            rows = np.arange(ns)
+            for i in range(k):
+                M[rows, :, n + q + combos[:, i]] = Kinv[:, :, n + ne + i]
+            L = np.zeros((ns, m, r))
+            for i in range(k):
+                L[rows, combos[:, i], :] = M[:, n + ne + i, :]
+            subsets.extend(tuple(int(v) for v in c) for c in combos)
+            maps.append(M[:, :n, :])
+            mults.append(L)
         self.subsets = subsets
-        self._maps = np.array(maps).reshape(len(maps) * n, r)
-        self._mults = np.array(mults)
+        allmaps = np.concatenate(maps, axis=0)
+        self._maps = allmaps.reshape(len(subsets) * n, r)
+        self._mults = np.concatenate(mults, axis=0)
 
     def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> QPBatch:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""

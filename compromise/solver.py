@@ -17,13 +17,16 @@ from typing import Any
 import numpy as np
 
 from compromise.case import Case
-from compromise.design import Design, Evaluation, evaluate_design, property_log_ratios
+from compromise.design import Design, Evaluation, evaluate_design
 from compromise.errors import CaseError
 from compromise.problem import PROPERTY_NAMES, Problem, Row, build_problem
 from compromise.qp import QPBatch, SmallQP
 
 N_TEMPERATURES = 36
 N_PRESSURES = 7
+N_ZOOM = 33  # temperatures per polish round
+N_ZOOM_PRESSURE = 9  # pressures per polish round (source models, not splines)
+ZOOM_ROUNDS = 4
 REGULARISATION = 1e-10  # relative weight of the tie-break toward the largest, least distorted model
 RELAXATION = 0.10  # "what a binding limit costs": relax it by 10 %
 
@@ -301,7 +304,13 @@ class FluidStates:
 
     def exact_p(self, T: float, P: float) -> np.ndarray:
         """Property log-ratios from the source models (not the splines)."""
-        p = property_log_ratios(self.case, self.name, T, P)
+        from compromise.problem import property_environment
+
+        env = property_environment(self.fluid.properties(T, P))
+        with np.errstate(invalid="ignore", divide="ignore"):
+            logs = np.array([0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
+                             for n in PROPERTY_NAMES])
+        p = logs - self.proto_log
         p[~self.used] = 0.0
         return p
 
@@ -320,9 +329,14 @@ def best_state(
     extra_e: np.ndarray | None = None,
     polish: bool = True,
 ) -> State | None:
-    """The optimal state of one fluid: grid over temperature (and pressure), then polish."""
-    from scipy.optimize import minimize_scalar
+    """The optimal state of one fluid: grid over temperature (and pressure), then polish.
 
+    The polish zooms: a fine grid of :data:`N_ZOOM` temperatures over the two grid cells around
+    the best point, solved in one batch, repeated :data:`ZOOM_ROUNDS` times (each round shrinks
+    the interval about 16-fold). Unlike a parabolic line search it is not misled by the kinks
+    where the active set changes. For a gas, log-pressure is zoomed the same way with the
+    source property models.
+    """
     t_lo, t_hi = fs.t_range
     T = _grid(t_lo, t_hi, n_temperatures)
     best: tuple[float, float, float] | None = None  # (objective, T, P)
@@ -334,28 +348,29 @@ def best_state(
     if best is None:
         return None
     obj0, t_best, p_best = best
-
-    def f_t(t: float, P: float) -> float:
-        _, o = engine.solve(fs.p(np.array([t]), P), h_shift, extra_e)
-        return float(o[0]) if np.isfinite(o[0]) else 1e300
-
-    if polish and len(T) > 1:
-        step = T[1] - T[0]
-        for _ in range(2 if fs.gas else 1):
-            lo, hi = max(t_lo, t_best - step), min(t_hi, t_best + step)
-            r = minimize_scalar(f_t, bounds=(lo, hi), args=(p_best,), method="bounded",
-                                options={"xatol": 1e-6})
-            if r.fun < obj0:
-                obj0, t_best = float(r.fun), float(r.x)
-            if fs.gas and fs.pressures().size > 1:
-                Ps = fs.pressures()
-                j = int(np.argmin(np.abs(np.log(Ps / p_best))))
-                plo, phi = Ps[max(j - 1, 0)], Ps[min(j + 1, Ps.size - 1)]
-                r = minimize_scalar(lambda lp: f_t(t_best, math.exp(lp)),
-                                    bounds=(math.log(plo), math.log(phi)), method="bounded",
-                                    options={"xatol": 1e-7})
-                if r.fun < obj0:
-                    obj0, p_best = float(r.fun), math.exp(float(r.x))
+    Ps = fs.pressures()
+    for _ in range(2 if fs.gas and Ps.size > 1 else 1):
+        if polish and len(T) > 1:
+            half = T[1] - T[0]
+            for _ in range(ZOOM_ROUNDS):
+                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
+                _, obj = engine.solve(fs.p(Tz, p_best), h_shift, extra_e)
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, t_best = float(obj[k]), float(Tz[k])
+                half = 2.0 * (Tz[1] - Tz[0])
+        if polish and fs.gas and Ps.size > 1:
+            half = math.log(Ps[1] / Ps[0])
+            lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
+            for _ in range(ZOOM_ROUNDS):
+                lp = np.linspace(max(lp_lo, math.log(p_best) - half),
+                                 min(lp_hi, math.log(p_best) + half), N_ZOOM_PRESSURE)
+                pz = np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
+                _, obj = engine.solve(pz, h_shift, extra_e)
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
+                half = 2.0 * (lp[1] - lp[0])
     # final exact re-solve with the source property models
     p_exact = fs.exact_p(t_best, p_best)
     batch, obj = engine.solve(p_exact[None], h_shift, extra_e)
@@ -364,6 +379,68 @@ def best_state(
         if not batch.feasible[0]:
             return None
     return State(fs.name, t_best, p_best, batch.y[0], float(obj[0]))
+
+
+def best_states(
+    engine: Engine,
+    fss: list[FluidStates],
+    *,
+    n_temperatures: int = N_TEMPERATURES,
+    h_shift: np.ndarray | None = None,
+    extra_e: np.ndarray | None = None,
+) -> list[State | None]:
+    """:func:`best_state` for several fluids, batching the liquids into shared solves.
+
+    Every liquid's temperature grid goes into one batched solve, and so does every zoom round;
+    gases with a pressure range take the one-fluid path.
+    """
+    out: list[State | None] = [None] * len(fss)
+    liquids = [i for i, fs in enumerate(fss) if fs.pressures().size == 1]
+    for i, fs in enumerate(fss):
+        if i not in liquids:
+            out[i] = best_state(engine, fs, n_temperatures=n_temperatures, h_shift=h_shift,
+                                extra_e=extra_e)
+    if not liquids:
+        return out
+    P = {i: float(fss[i].pressures()[0]) for i in liquids}
+    grids = {i: _grid(*fss[i].t_range, n_temperatures) for i in liquids}
+    p_all = np.vstack([fss[i].p(grids[i], P[i]) for i in liquids])
+    _, obj = engine.solve(p_all, h_shift, extra_e)
+    best: dict[int, list[float]] = {}
+    half: dict[int, float] = {}
+    start = 0
+    for i in liquids:
+        n = grids[i].size
+        o = obj[start:start + n]
+        start += n
+        k = int(np.argmin(o))
+        if np.isfinite(o[k]):
+            best[i] = [float(o[k]), float(grids[i][k])]
+            half[i] = float(grids[i][1] - grids[i][0]) if n > 1 else 0.0
+    zoom = [i for i in best if half[i] > 0]
+    for _ in range(ZOOM_ROUNDS if zoom else 0):
+        Tz = {}
+        for i in zoom:
+            lo, hi = fss[i].t_range
+            Tz[i] = np.linspace(max(lo, best[i][1] - half[i]), min(hi, best[i][1] + half[i]),
+                                N_ZOOM)
+        p_all = np.vstack([fss[i].p(Tz[i], P[i]) for i in zoom])
+        _, obj = engine.solve(p_all, h_shift, extra_e)
+        for j, i in enumerate(zoom):
+            o = obj[j * N_ZOOM:(j + 1) * N_ZOOM]
+            k = int(np.argmin(o))
+            if o[k] < best[i][0]:
+                best[i] = [float(o[k]), float(Tz[i][k])]
+            half[i] = 2.0 * float(Tz[i][1] - Tz[i][0])
+    for i in best:
+        fs, t = fss[i], best[i][1]
+        batch, o = engine.solve(fs.exact_p(t, P[i])[None], h_shift, extra_e)
+        if not batch.feasible[0]:  # feasible by the spline only, at a boundary
+            batch, o = engine.solve(fs.p(np.array([t]), P[i]), h_shift, extra_e)
+            if not batch.feasible[0]:
+                continue
+        out[i] = State(fs.name, t, P[i], batch.y[0], float(o[0]))
+    return out
 
 
 TIE = 1e-12  # [-] objectives closer than this (plus 1e-9 relative) count as equal
@@ -405,8 +482,8 @@ def solve(case: Case, *, n_temperatures: int = N_TEMPERATURES, alternatives: boo
                                alternatives=alternatives)
     engine = Engine(problem)
     states = {f: FluidStates(case, f, problem.used_properties) for f in case.model.fluids}
-    per_fluid = {f: best_state(engine, fs, n_temperatures=n_temperatures)
-                 for f, fs in states.items()}
+    per_fluid = dict(zip(states, best_states(engine, list(states.values()),
+                                             n_temperatures=n_temperatures), strict=True))
     feasible = [s for s in per_fluid.values() if s is not None]
     if not feasible:
         from compromise.diagnose import diagnose
@@ -448,15 +525,15 @@ def _binding_costs(
     sol, _ = nnls(M, -grad)
     lam = sol[: active.size]
     shift = math.log(1.0 + RELAXATION)
+    all_states = [fs if g == fs.name else FluidStates(problem.case, g, problem.used_properties)
+                  for g in problem.case.model.fluids]
     for i, li in zip(active, lam, strict=True):
         row = problem.rows[i]
         hs = np.zeros(problem.G.shape[0])
         hs[i] = shift
-        st = best_state(engine, fs, n_temperatures=n_temperatures, h_shift=hs)
-        others = [best_state(engine, FluidStates(problem.case, g, problem.used_properties),
-                             n_temperatures=n_temperatures, h_shift=hs)
-                  for g in problem.case.model.fluids if g != fs.name]
-        objs = [s.objective for s in [st, *others] if s is not None]
+        objs = [s.objective for s in best_states(engine, all_states,
+                                                 n_temperatures=n_temperatures, h_shift=hs)
+                if s is not None]
         new = min(objs) if objs else best.objective
         key = row.key
         out[key] = BindingCost(key, row.condition, float(li), float(li * shift),
@@ -509,9 +586,9 @@ def _alternatives(
     if case.model.preferred_ratios:
         engine = Engine(problem, extra_E=np.array([[1.0, 0.0, 0.0]]))
         for r in case.model.preferred_ratios:
-            cands = [best_state(engine, fs, n_temperatures=n_temperatures,
-                                extra_e=np.array([math.log(r)])) for fs in states.values()]
-            cands = [c for c in cands if c is not None]
+            cands = [c for c in best_states(engine, list(states.values()),
+                                            n_temperatures=n_temperatures,
+                                            extra_e=np.array([math.log(r)])) if c is not None]
             label = format_ratio(r)
             if not cands:
                 lo, hi = case.model.horizontal_ratio

@@ -628,9 +628,36 @@ class Seawater(Fluid):
         )
 
     def _vapour_pressure(self, temperature: float, pressure: float) -> float | None:
-        p_w = _make_fluid("water")._vapour_pressure(temperature, pressure)
+        p_w = water_vapour_pressure_wagner_pruss(temperature)
         s = self.salinity
-        return None if p_w is None else p_w / (1.0 + 0.57357 * s / (1000.0 - s))
+        return p_w / (1.0 + 0.57357 * s / (1000.0 - s))
+
+
+def water_vapour_pressure_wagner_pruss(temperature: float) -> float:
+    r"""Saturation pressure of pure water [Pa], the IAPWS auxiliary equation.
+
+    .. math:: \ln(p_s/p_c) = (T_c/T)(a_1\tau + a_2\tau^{1.5} + a_3\tau^3 + a_4\tau^{3.5}
+              + a_5\tau^4 + a_6\tau^{7.5}),\quad \tau = 1 - T/T_c
+
+    Valid from the triple point to the critical point; used here a few kelvin below the triple
+    point too (supercooled seawater near its freezing point), where it extrapolates smoothly.
+
+    References
+    ----------
+    Wagner, W., Pruss, A. (1993). International equations for the saturation properties of
+    ordinary water substance, revised according to the international temperature scale of
+    1990. *J. Phys. Chem. Ref. Data* 22(3), 783-787, eq. 1 (coefficients from memory).
+
+    Examples
+    --------
+    >>> round(water_vapour_pressure_wagner_pruss(373.124), -1)
+    101320.0
+    """
+    tc, pc = 647.096, 22.064e6
+    tau = 1.0 - temperature / tc
+    a = (-7.85951783, 1.84408259, -11.7866497, 22.6807411, -15.9618719, 1.80122502)
+    e = (1.0, 1.5, 3.0, 3.5, 4.0, 7.5)
+    return pc * math.exp(tc / temperature * sum(ai * tau**ei for ai, ei in zip(a, e, strict=True)))
 
 
 # ------------------------------------------------------------------------------ glycerol-water

@@ -33,7 +33,9 @@ DEFAULT_MODEL_TEMPERATURE = 293.15  # [K], a laboratory at 20 degC (common pract
 #: Quantity names tried, in order, as the characteristic length ``L`` of a built-in group.
 LENGTH_NAMES = ("depth", "diameter", "length", "height", "chord", "thickness", "width")
 
-TOP_KEYS = ("title", "description", "prototype", "groups", "model", "limits", "conditions")
+TOP_KEYS = (
+    "title", "description", "prototype", "groups", "model", "limits", "conditions", "phenomena",
+)
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
 QUANTITY_KEYS = ("value", "axis", "scales_as", "description")
 GROUP_KEYS = ("weight", "exact", "min", "max", "expr", "length", "description")
@@ -116,6 +118,8 @@ class Group:
     builtin: bool = False
     power: tuple[float, dict[str, float]] | None = field(default=None, compare=False)
     description: str = ""
+    #: a scale-effect threshold turned into a bound (reported as a limit, not as a group)
+    threshold: bool = False
 
 
 @dataclass(frozen=True)
@@ -155,6 +159,8 @@ class Case:
     model: ModelChoices
     limits: tuple[Limit, ...]
     description: str = ""
+    #: phenomenon -> {conventional quantity name: the case's quantity name}
+    phenomena: Mapping[str, Mapping[str, str]] = field(default_factory=dict)
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""
@@ -561,7 +567,11 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
 
     if L.errors:
         raise CaseErrors(L.errors)
+    phenomena = _phenomena(L, data.get("phenomena", []), quantities)
+    if L.errors:
+        raise CaseErrors(L.errors)
     return Case(
+        phenomena=phenomena,
         path=path,
         title=title,
         description=description,
@@ -824,3 +834,55 @@ def _model(L: _Loader, data: Any, prototype_fluid: str) -> ModelChoices:
         pressure=p,
         preferred_ratios=tuple(preferred),
     )
+
+
+def _phenomena(
+    L: _Loader, data: Any, quantities: Mapping[str, Quantity]
+) -> dict[str, dict[str, str]]:
+    """``phenomena``: a list of names, or a table of names each mapping conventional quantity
+    names onto the case's own (``[phenomena.hydraulic_jump] depth = "toe_depth"``)."""
+    from compromise.thresholds import PHENOMENA, conventional_names
+
+    if isinstance(data, list):
+        entries: dict[str, Any] = {}
+        for i, name in enumerate(data):
+            if not isinstance(name, str):
+                L.error(f"phenomena[{i}]", f"expected a phenomenon name, got {_show(name)}")
+                continue
+            entries[name] = {}
+    elif isinstance(data, dict):
+        entries = data
+    else:
+        L.error("phenomena", "expected a list of phenomenon names or a table of them")
+        return {}
+    out: dict[str, dict[str, str]] = {}
+    for name, mapping in entries.items():
+        key = f"phenomena.{name}"
+        if name not in PHENOMENA:
+            near = difflib.get_close_matches(name, list(PHENOMENA), n=1)
+            hint = f"; did you mean '{near[0]}'?" if near else f"; known: {', '.join(PHENOMENA)}"
+            L.error(key, f"unknown phenomenon{hint}")
+            continue
+        mapping = L.table(mapping, key)
+        needed = conventional_names(name)
+        aliases: dict[str, str] = {}
+        for conv, target in mapping.items():
+            if conv not in needed:
+                L.error(f"{key}.{conv}", f"'{name}' uses no quantity '{conv}'; it uses "
+                        f"{', '.join(needed)}")
+                continue
+            if not isinstance(target, str) or target not in quantities:
+                L.error(f"{key}.{conv}", f"expected the name of a prototype quantity, got "
+                        f"{_show(target)}")
+                continue
+            aliases[conv] = target
+        for conv in needed:
+            target = aliases.get(conv, conv)
+            if target not in quantities:
+                L.error(key, f"needs the quantity '{conv}'; define it under "
+                        f"prototype.quantities or map it: [{key}] {conv} = \"<quantity>\"")
+                break
+            aliases[conv] = target
+        else:
+            out[name] = aliases
+    return out

@@ -143,6 +143,11 @@ def solve(
         typer.Option("--csv", help="Also write the tables as CSV files into this folder.",
                      show_default=False),
     ] = None,
+    enforce_thresholds: Annotated[
+        bool,
+        typer.Option("--enforce-thresholds", help="Turn the scale-effect thresholds of the "
+                     "case's phenomena into bounds the design must satisfy."),
+    ] = False,
 ) -> None:
     """Find the design with the least weighted mismatch within every limit."""
 
@@ -150,7 +155,7 @@ def solve(
         from compromise.report import format_solution
         from compromise.solver import solve as run
 
-        sol = run(_load(case))
+        sol = run(_load(case), enforce_thresholds=enforce_thresholds)
         data = sol.to_dict()
         if csv is not None:
             from compromise.report import write_csv
@@ -360,6 +365,59 @@ def groups(
                 typer.echo(f"Pi_{i} = {d.to_text()}")
 
     _guard(body)
+
+
+@app.command()
+def tolerance(
+    case: CaseArg,
+    quantity: Annotated[
+        str, typer.Option("--quantity", help="Friction-controlled quantity: head_loss, slope, "
+                          "pressure_drop, friction or depth.")
+    ],
+    within: Annotated[
+        str, typer.Option("--within", help="Admissible bias, e.g. '5%' or 0.05.")
+    ] = "5%",
+    apply: Annotated[
+        bool, typer.Option("--apply", help="Add the answer to the solver as a Reynolds floor "
+                           "and solve the case with it.")
+    ] = False,
+    json_out: JsonOpt = False,
+) -> None:
+    """The smallest model Reynolds number that keeps a quantity's bias within a tolerance."""
+
+    def body() -> int:
+        from compromise.effects import apply_tolerance, reynolds_tolerance
+        from compromise.errors import CaseError
+        from compromise.report import format_solution, format_tolerance
+
+        c = _load(case)
+        text = within.strip()
+        try:
+            tol = float(text[:-1]) / 100 if text.endswith("%") else float(text)
+        except ValueError:
+            raise CaseError(f"expected a tolerance such as '5%', got {within!r}",
+                            key="--within") from None
+        res = reynolds_tolerance(c, quantity, tol)
+        data: dict[str, Any] = {"tolerance": res.to_dict()}
+        sol = None
+        if apply:
+            from compromise.solver import solve as run
+
+            c2, floor = apply_tolerance(c, res)
+            sol = run(c2)
+            data["floor"] = floor
+            data["solution"] = sol.to_dict()
+        if json_out:
+            _print_json(data)
+        else:
+            typer.echo(format_tolerance(data["tolerance"]))
+            if sol is not None:
+                typer.echo(f"\nWith the floor reynolds >= {data['floor']:.4g}:\n")
+                typer.echo(format_solution(sol.to_dict()))
+        return 0 if sol is None or sol.feasible else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
 
 
 def main() -> None:

@@ -233,9 +233,13 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
         menv = {n: v.model for n, v in quantities.items()}
         menv.update(model_props)
         groups: dict[str, GroupValue] = {}
+        model_group: dict[str, float] = {}
         for name, g in case.groups.items():
             pv = float(ex.evaluate(g.expression, penv))
             mv = float(ex.evaluate(g.expression, menv))
+            model_group[name] = mv
+            if g.threshold:
+                continue
             mm = math.log(mv / pv) if pv > 0 and mv > 0 else float("nan")
             groups[name] = GroupValue(pv, mv, mm, g.weight, g.exact)
         limits: dict[str, LimitValue] = {}
@@ -245,7 +249,7 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
             limits[f"{lim.quantity}.{lim.kind}"] = LimitValue(lim.quantity, lim.kind, lim.bound,
                                                               mv, margin)
         for name, g in case.groups.items():
-            gv = groups[name].model
+            gv = model_group[name]
             if g.min is not None:
                 limits[f"{name}.min"] = LimitValue(name, "min", g.min, gv, (gv - g.min) / g.min)
             if g.max is not None:

@@ -138,6 +138,8 @@ def format_solution(sol: dict[str, Any]) -> str:
             out += ["", f"Quantities in condition '{name}':", quantities_table(c["quantities"])]
     else:
         out += ["", "Quantities:", quantities_table(sol["quantities"])]
+    if sol.get("effects"):
+        out += ["", *effects_lines(sol["effects"])]
     if sol.get("alternatives"):
         out += ["", "Alternatives (best design per fluid and per preferred ratio):"]
         rows = []
@@ -154,6 +156,33 @@ def format_solution(sol: dict[str, Any]) -> str:
                           "separated by"], rows))
     out += ["", CAUTION]
     return "\n".join(out)
+
+
+def effects_lines(eff: dict[str, Any]) -> list[str]:
+    """Scale effects: risks first, then regimes, thresholds and consequences."""
+    out = ["Scale effects:"]
+    if eff["risks"]:
+        out.append("  Main risks:")
+        out += [f"  ! {r}" for r in eff["risks"]]
+    else:
+        out.append("  No regime change between prototype and model; no threshold fails.")
+    if eff["regimes"]:
+        rows = [[r["group"], r["condition"], r["prototype"], r["model"],
+                 "CHANGED" if r["changed"] else ""] for r in eff["regimes"]]
+        out += ["", table(["regime of", "condition", "prototype", "model", ""], rows)]
+    if eff["thresholds"]:
+        rows = [[f"{t['phenomenon']}.{t['name']}", t["condition"], t["model"],
+                 f"{'>=' if t['kind'] == 'min' else '<='} {fmt(t['passing'])}",
+                 t["verdict"].upper(), t["status"]] for t in eff["thresholds"]]
+        out += ["", table(["threshold", "condition", "model", "needs", "verdict", "source"],
+                          rows)]
+        sources = sorted({f"{t['phenomenon']}.{t['name']}: {t['source']}"
+                          for t in eff["thresholds"]})
+        out += ["  Sources:"] + [f"    {s}" for s in sources]
+    if eff["consequences"]:
+        out += ["", "  Consequences in prototype terms:"]
+        out += [f"  - [{c['condition']}] {c['message']}" for c in eff["consequences"]]
+    return out
 
 
 def format_check(summary: dict[str, Any], path: str) -> str:
@@ -279,3 +308,14 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
         os.replace(tmp, target)
         written.append(str(target))
     return written
+
+
+def format_tolerance(t: dict[str, Any]) -> str:
+    """The answer of ``compromise tolerance``."""
+    return "\n".join([
+        f"{t['quantity']} within {t['within']:.1%} (condition '{t['condition']}'):",
+        f"  prototype Reynolds number      {fmt(t['reynolds_prototype'])}",
+        f"  smallest model Reynolds number {fmt(t['reynolds_min'])}"
+        f"  (a reduction of {t['reynolds_prototype'] / t['reynolds_min']:.4g} times at most)",
+        f"  basis: {t['basis']}",
+    ])

@@ -11,7 +11,7 @@ fluid and verified from several starts (:mod:`compromise.nonlinear`).
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from typing import Any
 
 import numpy as np
@@ -141,6 +141,7 @@ class Solution:
     binding: dict[str, BindingCost]
     alternatives: tuple[Alternative, ...]
     conflict: Conflict | None = None
+    effects: Any = None  # compromise.effects.Effects of the design, when assessed
 
     @property
     def feasible(self) -> bool:
@@ -167,6 +168,8 @@ class Solution:
         out["alternatives"] = [a.to_dict() for a in self.alternatives]
         if len(ev.conditions) > 1:
             out["conditions"] = {c.name: c.to_dict() for c in ev.conditions}
+        if self.effects is not None:
+            out["effects"] = self.effects.to_dict()
         return out
 
     def to_frame(self) -> Any:
@@ -458,7 +461,14 @@ def _design(state: State) -> Design:
     return Design(state.fluid, state.temperature, state.pressure, x, z, v)
 
 
-def solve(case: Case, *, n_temperatures: int = N_TEMPERATURES, alternatives: bool = True) -> Solution:
+def solve(
+    case: Case,
+    *,
+    n_temperatures: int = N_TEMPERATURES,
+    alternatives: bool = True,
+    enforce_thresholds: bool = False,
+    effects: bool = True,
+) -> Solution:
     """Find the model design with the least weighted squared log-mismatch within every limit.
 
     Parameters
@@ -469,11 +479,28 @@ def solve(case: Case, *, n_temperatures: int = N_TEMPERATURES, alternatives: boo
         Temperature grid size per fluid before the polish.
     alternatives : bool
         Also solve restricted to each fluid and each preferred ratio, and price binding rows.
+    enforce_thresholds : bool
+        Turn the scale-effect thresholds of the case's phenomena into bounds on model values.
+    effects : bool
+        Assess the design's scale effects (regimes, thresholds, consequences).
 
     Returns
     -------
     Solution
     """
+    if enforce_thresholds:
+        from compromise.effects import with_thresholds
+
+        case = with_thresholds(case)
+    sol = _solve(case, n_temperatures, alternatives)
+    if effects and sol.evaluation is not None:
+        from compromise.effects import assess
+
+        sol = replace(sol, effects=assess(case, sol.evaluation))
+    return sol
+
+
+def _solve(case: Case, n_temperatures: int, alternatives: bool) -> Solution:
     problem = build_problem(case)
     if problem.nonlinear_groups:
         from compromise.nonlinear import solve_nonlinear

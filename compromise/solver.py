@@ -591,6 +591,21 @@ def _separator(case: Case, best: Evaluation | None, alt: Evaluation) -> str:
     return f"groups.{g}"
 
 
+def _ratio_conflict(problem: Problem, states: dict[str, FluidStates], ratio: float) -> list[str]:
+    """The bounds that conflict with a fixed horizontal ratio (keys, ratio itself excluded)."""
+    from compromise.diagnose import diagnose
+
+    fixed = replace(
+        problem,
+        E=np.vstack([problem.E, [1.0, 0.0, 0.0]]),
+        e0=np.append(problem.e0, math.log(ratio)),
+        Q=np.vstack([problem.Q, np.zeros(len(PROPERTY_NAMES))]),
+        exact_groups=(*problem.exact_groups, "horizontal_ratio"),
+    )
+    keys = [k for k in diagnose(fixed, states).keys if not k.startswith("model.horizontal_ratio")]
+    return keys or ["the case's bounds"]
+
+
 def _alternatives(
     case: Case,
     problem: Problem,
@@ -619,8 +634,10 @@ def _alternatives(
             label = format_ratio(r)
             if not cands:
                 lo, hi = case.model.horizontal_ratio
-                why = ("outside model.horizontal_ratio" if not lo * (1 - 1e-12) <= r <= hi * (1 + 1e-12)
-                       else "infeasible")
+                if not lo * (1 - 1e-12) <= r <= hi * (1 + 1e-12):
+                    why = "outside model.horizontal_ratio"
+                else:
+                    why = "infeasible: " + ", ".join(_ratio_conflict(problem, states, r))
                 alts.append(Alternative("ratio", label, None, math.inf, why))
                 continue
             c = _pick(cands, case)

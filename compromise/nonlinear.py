@@ -30,10 +30,20 @@ N_STARTS = 4
 class FullObjective:
     """Objective and nonlinear constraints of the full problem for one model fluid."""
 
-    def __init__(self, case: Case, problem: Problem, fs: FluidStates) -> None:
+    def __init__(
+        self,
+        case: Case,
+        problem: Problem,
+        fs: FluidStates,
+        *,
+        h_shift: np.ndarray | None = None,
+        fix_x: float | None = None,
+    ) -> None:
         from compromise.fluids import get_fluid
 
         self.case, self.problem, self.fs = case, problem, fs
+        self.h_shift = np.zeros(problem.G.shape[0]) if h_shift is None else h_shift
+        self.fix_x = fix_x
         proto = property_environment(get_fluid(case.fluid).properties(case.temperature,
                                                                       case.pressure))
         self.proto_props = proto
@@ -114,7 +124,7 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
         y, t, lp = unpack(u)
         p = p_of(t, lp)
         h, _ = pr.rhs(p)
-        lin = h - pr.G @ y
+        lin = h + obj.h_shift - pr.G @ y
         nl, _ = obj.constraints(y, p)
         return np.r_[lin, nl]
 
@@ -123,7 +133,8 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
         p = p_of(t, lp)
         _, e = pr.rhs(p)
         _, nl = obj.constraints(y, p)
-        return np.r_[pr.E @ y - e, nl]
+        fixed = [y[0] - obj.fix_x] if obj.fix_x is not None else []
+        return np.r_[pr.E @ y - e, nl, fixed]
 
     u0 = np.r_[y0, (t0 - t_lo) / tscale if t_hi > t_lo else 0.0]
     bounds = [(None, None)] * 3 + [(0.0, 1.0)]
@@ -132,7 +143,7 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
         u0 = np.r_[u0, lp0]
         bounds.append((math.log(lo), math.log(hi)))
     cons = [{"type": "ineq", "fun": g_ineq}]
-    if pr.E.shape[0] or any(g.exact for g in obj.groups):
+    if pr.E.shape[0] or any(g.exact for g in obj.groups) or obj.fix_x is not None:
         cons.append({"type": "eq", "fun": g_eq})
     r = minimize(f, u0, method="SLSQP", bounds=bounds, constraints=cons,
                  options={"ftol": 1e-14, "maxiter": 400})
@@ -153,7 +164,8 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
     starts = []
     for P in fs.pressures():
         p_all = fs.p(T, P)
-        batch, _ = engine.solve(p_all)  # type: ignore[attr-defined]
+        extra = None if obj.fix_x is None else np.array([obj.fix_x])
+        batch, _ = engine.solve(p_all, obj.h_shift, extra)  # type: ignore[attr-defined]
         for k in np.flatnonzero(batch.feasible):
             starts.append((obj(batch.y[k], p_all[k]), batch.y[k], float(T[k]), math.log(P)))
     if not starts:
@@ -172,29 +184,94 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
     return State(fs.name, float(t), float(P), u[:3].copy(), float(val))
 
 
-def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
-                    alternatives: bool) -> Solution:
-    """Solve a case that has groups which are not power products (see the module docstring)."""
-    from compromise.solver import Alternative, Engine, FluidStates, Solution, _design, _pick
+def _all_fluids(case: Case, problem: Problem, engine: object, n_temperatures: int,
+                *, h_shift: np.ndarray | None = None, fix_x: float | None = None) -> dict:
+    """Best nonlinear state of every model fluid (None where infeasible)."""
+    from compromise.solver import FluidStates
 
-    engine = Engine(problem)
-    per_fluid = {}
+    out = {}
     for f in case.model.fluids:
         fs = FluidStates(case, f, problem.used_properties)
-        per_fluid[f] = best_nonlinear_state(FullObjective(case, problem, fs), engine,
-                                            n_temperatures)
+        obj = FullObjective(case, problem, fs, h_shift=h_shift, fix_x=fix_x)
+        out[f] = best_nonlinear_state(obj, engine, n_temperatures)
+    return out
+
+
+def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
+                    alternatives: bool) -> Solution:
+    """Solve a case that has groups which are not power products (see the module docstring).
+
+    Binding rows are priced by re-solving with the bound relaxed (10 % for the drop, 0.1 % for
+    the marginal rate that stands in for the multiplier); preferred ratios are solved with the
+    horizontal ratio fixed.
+    """
+    from compromise.solver import (
+        RELAXATION,
+        Alternative,
+        BindingCost,
+        Engine,
+        FluidStates,
+        Solution,
+        _design,
+        _pick,
+        _separator,
+        relaxed_bound,
+    )
+    from compromise.units import format_ratio
+
+    engine = Engine(problem)
+    per_fluid = _all_fluids(case, problem, engine, n_temperatures)
     feasible = [s for s in per_fluid.values() if s is not None]
-    alts = tuple(sorted(
-        (Alternative("fluid", f, _design(s) if s else None, s.objective if s else math.inf,
-                     "" if s else "infeasible") for f, s in per_fluid.items()),
-        key=lambda a: (a.objective, a.label))) if alternatives else ()
-    if not feasible:
+    best = _pick(feasible, case) if feasible else None
+    best_eval = evaluate_design(case, _design(best)) if best else None
+
+    def ranked(states: dict) -> object:
+        good = [s for s in states.values() if s is not None]
+        return _pick(good, case) if good else None
+
+    alts: list[Alternative] = []
+    if alternatives:
+        for f, st in per_fluid.items():
+            d = _design(st) if st else None
+            alts.append(Alternative("fluid", f, d, st.objective if st else math.inf,
+                                    _separator(case, best_eval, evaluate_design(case, d))
+                                    if d else "infeasible"))
+        if case.model.preferred_ratios:
+            fixed = Engine(problem, extra_E=np.array([[1.0, 0.0, 0.0]]))
+            for r in case.model.preferred_ratios:
+                st = ranked(_all_fluids(case, problem, fixed, n_temperatures,
+                                        fix_x=math.log(r)))
+                d = _design(st) if st else None
+                alts.append(Alternative("ratio", format_ratio(r), d,
+                                        st.objective if st else math.inf,
+                                        _separator(case, best_eval, evaluate_design(case, d))
+                                        if d else "infeasible"))
+        alts.sort(key=lambda a: (a.objective, a.kind, a.label))
+    if best is None:
         from compromise.diagnose import diagnose
 
         states = {f: FluidStates(case, f, problem.used_properties) for f in case.model.fluids}
-        return Solution(case, "infeasible", math.inf, None, None, {}, alts,
+        return Solution(case, "infeasible", math.inf, None, None, {}, tuple(alts),
                         diagnose(problem, states))
-    best = _pick(feasible, case)
     design: Design = _design(best)
     ev = evaluate_design(case, design)
-    return Solution(case, "optimal", ev.objective, design, ev, {}, alts)
+    binding: dict[str, BindingCost] = {}
+    if alternatives:
+        fs = FluidStates(case, best.fluid, problem.used_properties)
+        h, _ = problem.rhs(fs.exact_p(best.temperature, best.pressure))
+        slack = h - problem.G @ best.y
+        shift, small = math.log(1.0 + RELAXATION), 1e-3
+        for i in np.flatnonzero(np.abs(slack) <= 1e-7 * (1 + np.abs(h))):
+            row = problem.rows[i]
+            objs = []
+            for dh in (shift, small):
+                hs = np.zeros(problem.G.shape[0])
+                hs[i] = dh
+                st = ranked(_all_fluids(case, problem, engine, n_temperatures, h_shift=hs))
+                objs.append(st.objective if st else best.objective)
+            rate = max(0.0, (best.objective - objs[1]) / small)
+            binding[row.key] = BindingCost(row.key, row.condition, rate, rate * shift,
+                                           max(0.0, best.objective - objs[0]),
+                                           relaxed_bound(row, shift))
+    # the objective from the source property models (the SLSQP runs on the splines)
+    return Solution(case, "optimal", ev.objective, design, ev, binding, tuple(alts))

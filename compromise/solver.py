@@ -26,7 +26,7 @@ N_TEMPERATURES = 36
 N_PRESSURES = 7
 N_ZOOM = 33  # temperatures per polish round
 N_ZOOM_PRESSURE = 9  # pressures per polish round (source models, not splines)
-ZOOM_ROUNDS = 4
+ZOOM_ROUNDS = 7  # 16-fold per round: ~1e-8 K from a ~1 K grid step
 REGULARISATION = 1e-10  # relative weight of the tie-break toward the largest, least distorted model
 RELAXATION = 0.10  # "what a binding limit costs": relax it by 10 %
 
@@ -374,14 +374,38 @@ def best_state(
                 if obj[k] < obj0:
                     obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
                 half = 2.0 * (lp[1] - lp[0])
-    # final exact re-solve with the source property models
-    p_exact = fs.exact_p(t_best, p_best)
-    batch, obj = engine.solve(p_exact[None], h_shift, extra_e)
-    if not batch.feasible[0]:  # the spline said feasible at a boundary; trust the source models
-        batch, obj = engine.solve(fs.p(np.array([t_best]), p_best), h_shift, extra_e)
-        if not batch.feasible[0]:
-            return None
-    return State(fs.name, t_best, p_best, batch.y[0], float(obj[0]))
+    step = (T[1] - T[0]) / 16.0**ZOOM_ROUNDS if len(T) > 1 else 0.0
+    return _finish(engine, fs, t_best, p_best, step, h_shift, extra_e)
+
+
+def _finish(
+    engine: Engine,
+    fs: FluidStates,
+    t: float,
+    P: float,
+    step: float,
+    h_shift: np.ndarray | None,
+    extra_e: np.ndarray | None,
+) -> State | None:
+    """Re-solve at the polished state with the source property models (not the splines).
+
+    Where the splines (relative error ~1e-8) put the state just inside a bound that the source
+    models put just outside, step back into the feasible side in growing steps.
+    """
+    batch, obj = engine.solve(fs.exact_p(t, P)[None], h_shift, extra_e)
+    if batch.feasible[0]:
+        return State(fs.name, t, P, batch.y[0], float(obj[0]))
+    lo, hi = fs.t_range
+    for k in range(1, 12):
+        cands = [c for c in (t - step * 4.0**k, t + step * 4.0**k) if lo <= c <= hi]
+        if not cands:
+            break
+        ps = np.array([fs.exact_p(c, P) for c in cands])
+        batch, obj = engine.solve(ps, h_shift, extra_e)
+        if batch.feasible.any():
+            j = int(np.argmin(obj))
+            return State(fs.name, cands[j], P, batch.y[j], float(obj[j]))
+    return None
 
 
 def best_states(
@@ -436,13 +460,7 @@ def best_states(
                 best[i] = [float(o[k]), float(Tz[i][k])]
             half[i] = 2.0 * float(Tz[i][1] - Tz[i][0])
     for i in best:
-        fs, t = fss[i], best[i][1]
-        batch, o = engine.solve(fs.exact_p(t, P[i])[None], h_shift, extra_e)
-        if not batch.feasible[0]:  # feasible by the spline only, at a boundary
-            batch, o = engine.solve(fs.p(np.array([t]), P[i]), h_shift, extra_e)
-            if not batch.feasible[0]:
-                continue
-        out[i] = State(fs.name, t, P[i], batch.y[0], float(o[0]))
+        out[i] = _finish(engine, fss[i], best[i][1], P[i], half[i] / 2.0, h_shift, extra_e)
     return out
 
 

@@ -99,10 +99,17 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
     keys: list[str] = []
     relaxation: dict[str, float | None] = {}
     conditions: dict[str, str | None] = {}
+    units: dict[str, str] = {}
     for i in keep_i:
         row: Row = problem.rows[i]
         keys.append(row.key)
         conditions[row.key] = row.condition
+        if row.kind == "limit":
+            units[row.key] = problem.case.quantities[row.name].unit
+        elif row.kind == "bound" and row.name != "distortion":
+            units[row.key] = "ratio"
+        else:
+            units[row.key] = "-"
         others = [j for j in range(m) if j != i]
         best = math.inf
         for hh, ee in rhs:
@@ -124,4 +131,4 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
         keys.append(key)
         relaxation[key] = None
         conditions[key] = None
-    return Conflict(tuple(keys), relaxation, conditions)
+    return Conflict(tuple(keys), relaxation, conditions, units)

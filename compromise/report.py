@@ -107,14 +107,18 @@ def format_solution(sol: dict[str, Any]) -> str:
             cond = sol.get("conditions", {}).get(key)
             relax = sol.get("relaxation", {}).get(key)
             where = f" (in condition '{cond}')" if cond else ""
+            unit = sol.get("units", {}).get(key, "")
+            if relax is None and (key.endswith(".exact") or key.count(".") == 1):
+                out.append(f"  - {key}{where}: held exactly by the case")
+                continue
             if relax is None:
                 out.append(f"  - {key}{where}: cannot be moved far enough on its own")
-            else:
-                if key.endswith(".max"):
-                    out.append(f"  - {key}{where}: feasible if raised to {fmt(relax)}")
-                else:
-                    out.append(f"  - {key}{where}: feasible if lowered to {fmt(relax)}")
-        out.append("Any one of these moves makes the case feasible on its own.")
+                continue
+            value = format_ratio(relax) if unit == "ratio" else fmt(relax)
+            value += f" {unit}" if unit not in ("", "-", "ratio") else ""
+            verb = "raised" if key.endswith(".max") else "lowered"
+            out.append(f"  - {key}{where}: feasible if {verb} to {value}")
+        out.append("Each move given makes the case feasible on its own.")
         out += ["", CAUTION]
         return "\n".join(out)
     out.append(f"Best design (weighted mismatch {fmt(sol['objective'], 6)}):")

@@ -112,11 +112,12 @@ class Conflict:
     keys: tuple[str, ...]
     relaxation: dict[str, float | None]
     conditions: dict[str, str | None] = field(default_factory=dict)
+    units: dict[str, str] = field(default_factory=dict)
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
         return {"conflict": list(self.keys), "relaxation": dict(self.relaxation),
-                "conditions": dict(self.conditions)}
+                "conditions": dict(self.conditions), "units": dict(self.units)}
 
 
 @dataclass(frozen=True)

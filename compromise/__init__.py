@@ -18,6 +18,9 @@ __all__ = [
     "load_case",
     "scale_table",
     "solve",
+    "trace_front",
+    "design_map",
+    "weight_sensitivity",
 ]
 
 _LAZY = {
@@ -28,6 +31,10 @@ _LAZY = {
     "scale_table": "compromise.design",
     "evaluate_design": "compromise.design",
     "solve": "compromise.solver",
+    "trace_front": "compromise.tradeoffs",
+    "assess": "compromise.effects",
+    "design_map": "compromise.designmap",
+    "weight_sensitivity": "compromise.sensitivity",
 }
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -36,6 +43,9 @@ if TYPE_CHECKING:  # pragma: no cover
     from compromise.fluids import get_fluid
     from compromise.groups import derive_groups
     from compromise.solver import solve
+    from compromise.designmap import design_map
+    from compromise.sensitivity import weight_sensitivity
+    from compromise.tradeoffs import trace_front
 
 
 def __getattr__(name: str) -> Any:

@@ -420,6 +420,153 @@ def tolerance(
     raise typer.Exit(code or 0)
 
 
+OutOpt = Annotated[
+    Path | None,
+    typer.Option("-o", "--out", help="Folder for the CSV, PNG and SVG files "
+                 "(default: out/<case name>/).", show_default=False),
+]
+
+
+def _axes_list(first: str | None, more: list[str] | None) -> list[str]:
+    """Axis names given as ``--opt A B [C]`` (the rest arrive as arguments) or ``A,B``."""
+    names = [n.strip() for n in (first or "").split(",") if n.strip()]
+    for item in more or []:
+        names.extend(n.strip() for n in item.split(",") if n.strip())
+    return names
+
+
+def _written(paths: list[Path]) -> str:
+    return "Wrote: " + ", ".join(str(p) for p in paths)
+
+
+@app.command()
+def tradeoff(
+    case: CaseArg,
+    between: Annotated[
+        str,
+        typer.Option("--between", help="The axes, two or three, each a thing to keep small: a "
+                     "group's name (its absolute log-mismatch), 'total' (the weighted mismatch),"
+                     " a quantity's name (its model value), 'plan_area' or 'distortion'. Write "
+                     "them after the option: --between total discharge.", show_default=False),
+    ],
+    more: Annotated[
+        list[str] | None,
+        typer.Argument(help="The second (and third) axis of --between.", show_default=False,
+                       metavar="AXIS..."),
+    ] = None,
+    points: Annotated[
+        int, typer.Option("--points", min=2, help="Epsilon values of the final sweep (points "
+                          "on the front, before duplicates are dropped).")
+    ] = 100,
+    keep_limits: Annotated[
+        bool, typer.Option("--keep-limits", help="Keep the case's maxima on the axes' own "
+                           "quantities; by default they are lifted, so the front shows what "
+                           "relaxing them buys.")
+    ] = False,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
+
+    def body() -> int:
+        from compromise.tradeoff_report import format_front, write_front
+        from compromise.tradeoffs import trace_front
+
+        front = trace_front(_load(case), _axes_list(between, more), points=points,
+                            lift=not keep_limits)
+        paths = write_front(front, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(front.to_dict())
+        else:
+            typer.echo(format_front(front))
+            typer.echo("\n" + _written(paths))
+        return 0 if front.points else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
+@app.command("map")
+def map_(
+    case: CaseArg,
+    axes: Annotated[
+        str | None,
+        typer.Option("--axes", help="Two decision variables among horizontal_ratio, "
+                     "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
+                     "horizontal_ratio distortion (default: those two when the case allows "
+                     "distortion, else horizontal_ratio and temperature).", show_default=False),
+    ] = None,
+    more: Annotated[
+        list[str] | None,
+        typer.Argument(help="The second axis of --axes.", show_default=False, metavar="AXIS"),
+    ] = None,
+    fluid: Annotated[
+        str | None,
+        typer.Option("--fluid", help="Model fluid of the map (default: the solver's choice).",
+                     show_default=False),
+    ] = None,
+    resolution: Annotated[
+        int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
+    ] = 81,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """Draw the feasible window over two decision variables, with the mismatch inside it."""
+
+    def body() -> int:
+        from compromise.designmap import design_map
+        from compromise.tradeoff_report import format_map, write_map
+
+        names = _axes_list(axes, more)
+        dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
+        paths = write_map(dmap, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(dmap.to_dict())
+        else:
+            typer.echo(format_map(dmap))
+            typer.echo("\n" + _written(paths))
+        return 0 if dmap.feasible_share > 0 else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
+@app.command()
+def sensitivity(
+    case: CaseArg,
+    spread: Annotated[
+        float, typer.Option("--spread", help="Each weight is multiplied by a factor drawn "
+                            "log-uniformly between 1/SPREAD and SPREAD.")
+    ] = 10.0,
+    samples: Annotated[
+        int, typer.Option("--samples", min=1, help="Number of weight samples.")
+    ] = 2000,
+    seed: Annotated[
+        int, typer.Option("--seed", help="Seed of the random generator (same seed, same "
+                          "answer).")
+    ] = 0,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """How often each candidate design (fluid x preferred ratio) is best when weights vary."""
+
+    def body() -> int:
+        from compromise.sensitivity import weight_sensitivity
+        from compromise.tradeoff_report import format_sensitivity, write_sensitivity
+
+        sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
+        paths = write_sensitivity(sens, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(sens.to_dict())
+        else:
+            typer.echo(format_sensitivity(sens))
+            typer.echo("\n" + _written(paths))
+        return 0 if sens.nominal >= 0 else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
 def main() -> None:
     """Entry point of the ``compromise`` command."""
     try:

@@ -19,11 +19,17 @@ import numpy as np
 
 from compromise.case import case_from_dict
 from compromise.problem import build_problem
-from compromise.solver import Engine, FluidStates, solve
+from compromise.solver import FluidStates, solve
 
 ROOT = Path(__file__).resolve().parents[1]
-SIX = ["water", "seawater", "glycerol-water 5%", "glycerol-water 10%", "seawater 20 g/kg",
-       "glycerol-water 2%"]
+SIX = [
+    "water",
+    "seawater",
+    "glycerol-water 5%",
+    "glycerol-water 10%",
+    "seawater 20 g/kg",
+    "glycerol-water 2%",
+]
 
 
 def river(fluids: list[str]):
@@ -101,15 +107,23 @@ def main() -> None:
     t_exact, sol = timed(lambda: solve(case, alternatives=False))
     t_de, obj_de = timed(lambda: differential_evolution_run(case), repeat=1)
     t_bf, obj_bf = timed(lambda: brute_force(case), repeat=1)
-    print("river case, 6 candidate fluids, temperature range "
-          f"{case.model.temperature[0] - 273.15:.0f}-{case.model.temperature[1] - 273.15:.0f} degC")
-    print(f"{'method':28s} {'time [ms]':>10s} {'objective':>14s} {'time ratio':>11s}"
-          f" {'objective ratio':>16s}")
-    for name, t, obj in [("exact (compromise)", t_exact, sol.objective),
-                         ("differential_evolution", t_de, obj_de),
-                         ("dense brute force", t_bf, obj_bf)]:
-        print(f"{name:28s} {t * 1e3:10.2f} {obj:14.8f} {t / t_exact:11.1f}"
-              f" {obj / sol.objective:16.8f}")
+    print(
+        "river case, 6 candidate fluids, temperature range "
+        f"{case.model.temperature[0] - 273.15:.0f}-{case.model.temperature[1] - 273.15:.0f} degC"
+    )
+    print(
+        f"{'method':28s} {'time [ms]':>10s} {'objective':>14s} {'time ratio':>11s}"
+        f" {'objective ratio':>16s}"
+    )
+    for name, t, obj in [
+        ("exact (compromise)", t_exact, sol.objective),
+        ("differential_evolution", t_de, obj_de),
+        ("dense brute force", t_bf, obj_bf),
+    ]:
+        print(
+            f"{name:28s} {t * 1e3:10.2f} {obj:14.8f} {t / t_exact:11.1f}"
+            f" {obj / sol.objective:16.8f}"
+        )
     print()
     print("growth with the number of candidate fluids (solver only, tables cached):")
     base = None
@@ -123,8 +137,10 @@ def main() -> None:
         solve(c, alternatives=False)
         t, _ = timed(lambda c=c: solve(c, alternatives=False), repeat=3)
         base = base or t / n
-        print(f"  {n:3d} fluids: {t * 1e3:8.2f} ms  ({t / n * 1e3:6.3f} ms per fluid,"
-              f" {t / n / base:4.2f} x the 6-fluid rate)")
+        print(
+            f"  {n:3d} fluids: {t * 1e3:8.2f} ms  ({t / n * 1e3:6.3f} ms per fluid,"
+            f" {t / n / base:4.2f} x the 6-fluid rate)"
+        )
 
 
 if __name__ == "__main__":

@@ -37,8 +37,10 @@ def main() -> None:
     print(f"reference: python -c pass          {ref * 1e3:8.1f} ms")
     for label, cmd, target in rows:
         t = best(cmd)
-        print(f"{label:40s} {t * 1e3:8.1f} ms  = {t / ref:5.1f} x reference,"
-              f" {t / target:4.2f} of the {target} s target")
+        print(
+            f"{label:40s} {t * 1e3:8.1f} ms  = {t / ref:5.1f} x reference,"
+            f" {t / target:4.2f} of the {target} s target"
+        )
 
 
 if __name__ == "__main__":

@@ -12,14 +12,16 @@ __version__ = "0.1.0"
 
 __all__ = [
     "__version__",
+    "assess",
+    "case_from_dict",
     "derive_groups",
+    "design_map",
     "evaluate_design",
     "get_fluid",
     "load_case",
     "scale_table",
     "solve",
     "trace_front",
-    "design_map",
     "weight_sensitivity",
 ]
 
@@ -40,11 +42,12 @@ _LAZY = {
 if TYPE_CHECKING:  # pragma: no cover
     from compromise.case import case_from_dict, load_case
     from compromise.design import evaluate_design, scale_table
+    from compromise.designmap import design_map
+    from compromise.effects import assess
     from compromise.fluids import get_fluid
     from compromise.groups import derive_groups
-    from compromise.solver import solve
-    from compromise.designmap import design_map
     from compromise.sensitivity import weight_sensitivity
+    from compromise.solver import solve
     from compromise.tradeoffs import trace_front
 
 

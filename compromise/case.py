@@ -32,7 +32,14 @@ DEFAULT_MODEL_TEMPERATURE = 293.15  # [K], a laboratory at 20 degC (common pract
 LENGTH_NAMES = ("depth", "diameter", "length", "height", "chord", "thickness", "width")
 
 TOP_KEYS = (
-    "title", "description", "prototype", "groups", "model", "limits", "conditions", "phenomena",
+    "title",
+    "description",
+    "prototype",
+    "groups",
+    "model",
+    "limits",
+    "conditions",
+    "phenomena",
 )
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
 QUANTITY_KEYS = ("value", "axis", "scales_as", "description")
@@ -347,8 +354,12 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
             L.error("prototype.fluid", str(exc))
     temperature = 288.15
     if "temperature" in proto:
-        t = L.quantity(proto["temperature"], "prototype.temperature", (0, 0, 0, 1),
-                       what="a temperature such as '12 degC'")
+        t = L.quantity(
+            proto["temperature"],
+            "prototype.temperature",
+            (0, 0, 0, 1),
+            what="a temperature such as '12 degC'",
+        )
         if t:
             temperature = t[0]
     else:
@@ -376,8 +387,11 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
             L.rejected.add(name)
             continue
         if name in ex.PROPERTY_NAMES or name == "L" or name in ex.CONSTANTS or name in ex.FUNCTIONS:
-            L.error(key, f"'{name}' is reserved (fluid property, characteristic length, constant "
-                    "or function of the expression language); rename it")
+            L.error(
+                key,
+                f"'{name}' is reserved (fluid property, characteristic length, constant "
+                "or function of the expression language); rename it",
+            )
             L.rejected.add(name)
             continue
         q = check_quantity(L, name, entry, key)
@@ -404,8 +418,12 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
                 continue
             elif k in quantities:
                 q = quantities[k]
-                parsed = L.quantity(v, f"{key}.{k}", q.dimension,
-                                    positive=q.dimension != (0, 0, 0, 0) or q.value > 0)
+                parsed = L.quantity(
+                    v,
+                    f"{key}.{k}",
+                    q.dimension,
+                    positive=q.dimension != (0, 0, 0, 0) or q.value > 0,
+                )
                 if parsed:
                     values[k] = parsed[0]
             else:
@@ -420,7 +438,9 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
     groups = check_groups(L, data.get("groups"), quantities)
 
     # model -------------------------------------------------------------------------------
-    model = check_model(L, data.get("model", {}), fluid_name if isinstance(fluid_name, str) else "water")
+    model = check_model(
+        L, data.get("model", {}), fluid_name if isinstance(fluid_name, str) else "water"
+    )
 
     # limits ------------------------------------------------------------------------------
     limits: list[Limit] = []
@@ -432,8 +452,11 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
         if name not in quantities:
             near = difflib.get_close_matches(name, list(quantities), n=1)
             hint = f"; did you mean '{near[0]}'?" if near else ""
-            L.error(key, f"not a prototype quantity{hint} (limits bound model values of "
-                    "prototype.quantities)")
+            L.error(
+                key,
+                f"not a prototype quantity{hint} (limits bound model values of "
+                "prototype.quantities)",
+            )
             continue
         if not isinstance(entry, dict):
             L.table(entry, key)

@@ -56,7 +56,11 @@ class Loader:
         for k in data:
             if k not in allowed:
                 near = difflib.get_close_matches(k, allowed, n=1)
-                hint = f"; did you mean '{near[0]}'?" if near else f"; expected one of {', '.join(allowed)}"
+                hint = (
+                    f"; did you mean '{near[0]}'?"
+                    if near
+                    else f"; expected one of {', '.join(allowed)}"
+                )
                 self.error(join(prefix, k), f"unknown key{hint}")
 
     def positive(self, value: Any, key: str, what: str = "a positive number") -> float | None:
@@ -89,8 +93,7 @@ class Loader:
             if tuple(got) == (0, 0, 0, 0) and isinstance(value, int | float):
                 unit = "degC" if tuple(dim) == (0, 0, 0, 1) else si_unit(dim)
                 example = "" if what else f" (e.g. '{value} {unit}')"
-                self.error(key, f"expected {want} with units{example}, "
-                           f"got the bare number {value}")
+                self.error(key, f"expected {want} with units{example}, got the bare number {value}")
             else:
                 self.error(key, f"expected {want}, got {show(value)} (a {dimension_name(got)})")
             return None
@@ -164,7 +167,9 @@ def check_quantity(L: Loader, name: str, entry: Any, key: str) -> Quantity | Non
         value = entry["value"]
         axis = entry.get("axis", "horizontal")
         if axis not in ("horizontal", "vertical", "section"):
-            L.error(f"{key}.axis", f"expected 'horizontal', 'vertical' or 'section', got {show(axis)}")
+            L.error(
+                f"{key}.axis", f"expected 'horizontal', 'vertical' or 'section', got {show(axis)}"
+            )
             return None
         scales_as = entry.get("scales_as")
         description = str(entry.get("description", ""))
@@ -208,8 +213,11 @@ def check_scales_as(L: Loader, text: str, key: str) -> np.ndarray | None:
         return None
     unknown = sorted(ex.names(tree) - set(SCALES_AS_NAMES))
     if unknown:
-        L.error(key, f"unknown name '{unknown[0]}'; expected products of powers of "
-                f"{', '.join(SCALES_AS_NAMES)}")
+        L.error(
+            key,
+            f"unknown name '{unknown[0]}'; expected products of powers of "
+            f"{', '.join(SCALES_AS_NAMES)}",
+        )
         return None
     pp = ex.power_product(tree)
     if pp is None or abs(pp[0] - 1) > 1e-12:
@@ -260,44 +268,76 @@ def check_groups(L: Loader, data: Any, quantities: Mapping[str, Quantity]) -> di
         if "L" in ex.names(tree):
             length = entry.get("length")
             if length is None:
-                length = next((n for n in LENGTH_NAMES if n in L.rejected or (
-                    n in quantities and quantities[n].dimension == (0, 1, 0, 0))), None)
+                length = next(
+                    (
+                        n
+                        for n in LENGTH_NAMES
+                        if n in L.rejected
+                        or (n in quantities and quantities[n].dimension == (0, 1, 0, 0))
+                    ),
+                    None,
+                )
                 if length in L.rejected:
                     continue
                 if length is None:
-                    L.error(key, "needs a characteristic length: add 'length = \"<quantity>\"' "
-                            f"or define one of {', '.join(LENGTH_NAMES)}")
+                    L.error(
+                        key,
+                        "needs a characteristic length: add 'length = \"<quantity>\"' "
+                        f"or define one of {', '.join(LENGTH_NAMES)}",
+                    )
                     continue
             elif isinstance(length, str) and length in L.rejected:
                 continue
-            elif (not isinstance(length, str) or length not in quantities
-                  or quantities[length].dimension != (0, 1, 0, 0)):
-                L.error(f"{key}.length", "expected the name of a prototype quantity that is a "
-                        f"length, got {show(length)}")
+            elif (
+                not isinstance(length, str)
+                or length not in quantities
+                or quantities[length].dimension != (0, 1, 0, 0)
+            ):
+                L.error(
+                    f"{key}.length",
+                    "expected the name of a prototype quantity that is a "
+                    f"length, got {show(length)}",
+                )
                 continue
             tree = ex.substitute(tree, {"L": ex.parse(length)})
         try:
             d = ex.dimension(tree, dims)
         except ExpressionError as exc:
-            L.error(ekey, f"{exc}" + ("" if not builtin else
-                    f" (built-in '{name}' is {BUILTIN_GROUPS[name].expression})"))
+            L.error(
+                ekey,
+                f"{exc}"
+                + (
+                    ""
+                    if not builtin
+                    else f" (built-in '{name}' is {BUILTIN_GROUPS[name].expression})"
+                ),
+            )
             continue
         if any(abs(x) > 1e-9 for x in d):
-            L.error(ekey, f"expected a dimensionless expression, got {dimension_text(d)}: "
-                    f"{ex.to_text(tree)}")
+            L.error(
+                ekey,
+                f"expected a dimensionless expression, got {dimension_text(d)}: {ex.to_text(tree)}",
+            )
             continue
         weight = entry.get("weight", 1.0)
-        w = 0.0 if weight == 0 and not isinstance(weight, bool) else L.positive(
-            weight, f"{key}.weight", "a weight >= 0")
+        w = (
+            0.0
+            if weight == 0 and not isinstance(weight, bool)
+            else L.positive(weight, f"{key}.weight", "a weight >= 0")
+        )
         exact = entry.get("exact", False)
         if not isinstance(exact, bool):
             L.error(f"{key}.exact", f"expected true or false, got {show(exact)}")
             exact = False
         lo = hi = None
         if "min" in entry:
-            lo = L.positive(entry["min"], f"{key}.min", "a positive number (the model value's floor)")
+            lo = L.positive(
+                entry["min"], f"{key}.min", "a positive number (the model value's floor)"
+            )
         if "max" in entry:
-            hi = L.positive(entry["max"], f"{key}.max", "a positive number (the model value's ceiling)")
+            hi = L.positive(
+                entry["max"], f"{key}.max", "a positive number (the model value's ceiling)"
+            )
         if lo is not None and hi is not None and lo > hi:
             L.error(key, f"min {lo} is greater than max {hi}")
         if w is None:
@@ -328,13 +368,18 @@ def check_model(L: Loader, data: Any, prototype_fluid: str) -> ModelChoices:
     if "horizontal_ratio" in data:
         h = L.bounds(data["horizontal_ratio"], "model.horizontal_ratio", L.ratio) or h
     else:
-        L.error("model.horizontal_ratio", "missing; expected bounds such as {min = \"1:500\", max = \"1:20\"}")
+        L.error(
+            "model.horizontal_ratio",
+            'missing; expected bounds such as {min = "1:500", max = "1:20"}',
+        )
     d = (1.0, 1.0)
     if "distortion" in data:
         d = L.bounds(data["distortion"], "model.distortion", L.positive) or d
         if d[0] < 1:
-            L.error("model.distortion", "expected values >= 1 (vertical ratio / horizontal ratio; "
-                    "1 means undistorted)")
+            L.error(
+                "model.distortion",
+                "expected values >= 1 (vertical ratio / horizontal ratio; 1 means undistorted)",
+            )
     v = None
     if "velocity_ratio" in data:
         v = L.bounds(data["velocity_ratio"], "model.velocity_ratio", L.ratio)
@@ -385,7 +430,7 @@ def check_model(L: Loader, data: Any, prototype_fluid: str) -> ModelChoices:
     preferred: list[float] = []
     raw_pref = data.get("preferred_ratios", [])
     if not isinstance(raw_pref, list):
-        L.error("model.preferred_ratios", "expected a list of ratios such as [\"1:50\", \"1:100\"]")
+        L.error("model.preferred_ratios", 'expected a list of ratios such as ["1:50", "1:100"]')
         raw_pref = []
     for i, r in enumerate(raw_pref):
         val = L.ratio(r, f"model.preferred_ratios[{i}]")
@@ -434,19 +479,26 @@ def check_phenomena(
         aliases: dict[str, str] = {}
         for conv, target in mapping.items():
             if conv not in needed:
-                L.error(f"{key}.{conv}", f"'{name}' uses no quantity '{conv}'; it uses "
-                        f"{', '.join(needed)}")
+                L.error(
+                    f"{key}.{conv}",
+                    f"'{name}' uses no quantity '{conv}'; it uses {', '.join(needed)}",
+                )
                 continue
             if not isinstance(target, str) or target not in quantities:
-                L.error(f"{key}.{conv}", f"expected the name of a prototype quantity, got "
-                        f"{show(target)}")
+                L.error(
+                    f"{key}.{conv}",
+                    f"expected the name of a prototype quantity, got {show(target)}",
+                )
                 continue
             aliases[conv] = target
         for conv in needed:
             target = aliases.get(conv, conv)
             if target not in quantities:
-                L.error(key, f"needs the quantity '{conv}'; define it under "
-                        f"prototype.quantities or map it: [{key}] {conv} = \"<quantity>\"")
+                L.error(
+                    key,
+                    f"needs the quantity '{conv}'; define it under "
+                    f'prototype.quantities or map it: [{key}] {conv} = "<quantity>"',
+                )
                 break
             aliases[conv] = target
         else:

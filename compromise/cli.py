@@ -109,8 +109,9 @@ def _pressure(text: str, option: str) -> float:
     except ValueError as exc:
         raise CaseError(str(exc), key=option) from None
     if dim != (1, -1, -2, 0) or value <= 0:
-        raise CaseError(f"expected a positive pressure such as '101325 Pa', got {text!r}",
-                        key=option)
+        raise CaseError(
+            f"expected a positive pressure such as '101325 Pa', got {text!r}", key=option
+        )
     return value
 
 
@@ -140,13 +141,17 @@ def solve(
     json_out: JsonOpt = False,
     csv: Annotated[
         Path | None,
-        typer.Option("--csv", help="Also write the tables as CSV files into this folder.",
-                     show_default=False),
+        typer.Option(
+            "--csv", help="Also write the tables as CSV files into this folder.", show_default=False
+        ),
     ] = None,
     enforce_thresholds: Annotated[
         bool,
-        typer.Option("--enforce-thresholds", help="Turn the scale-effect thresholds of the "
-                     "case's phenomena into bounds the design must satisfy."),
+        typer.Option(
+            "--enforce-thresholds",
+            help="Turn the scale-effect thresholds of the "
+            "case's phenomena into bounds the design must satisfy.",
+        ),
     ] = False,
 ) -> None:
     """Find the design with the least weighted mismatch within every limit."""
@@ -177,13 +182,19 @@ def scales(
     ratio: Annotated[str, typer.Option("--ratio", help="Horizontal length ratio, e.g. 1:25.")],
     vertical: Annotated[
         str | None,
-        typer.Option("--vertical", help="Vertical length ratio for a distorted model, e.g. 1:5.",
-                     show_default=False),
+        typer.Option(
+            "--vertical",
+            help="Vertical length ratio for a distorted model, e.g. 1:5.",
+            show_default=False,
+        ),
     ] = None,
     velocity: Annotated[
         str,
-        typer.Option("--velocity", help="How velocity scales: 'froude', 'reynolds', another "
-                     "group of the case kept exactly, or the velocity ratio itself."),
+        typer.Option(
+            "--velocity",
+            help="How velocity scales: 'froude', 'reynolds', another "
+            "group of the case kept exactly, or the velocity ratio itself.",
+        ),
     ] = "froude",
     fluid: Annotated[
         str | None,
@@ -191,13 +202,17 @@ def scales(
     ] = None,
     temperature: Annotated[
         str | None,
-        typer.Option("--temperature", help="Model fluid temperature, e.g. '20 degC' "
-                     "(default: the prototype's).", show_default=False),
+        typer.Option(
+            "--temperature",
+            help="Model fluid temperature, e.g. '20 degC' (default: the prototype's).",
+            show_default=False,
+        ),
     ] = None,
     pressure: Annotated[
         str | None,
-        typer.Option("--pressure", help="Model fluid pressure for a gas, e.g. '5 bar'.",
-                     show_default=False),
+        typer.Option(
+            "--pressure", help="Model fluid pressure for a gas, e.g. '5 bar'.", show_default=False
+        ),
     ] = None,
     json_out: JsonOpt = False,
 ) -> None:
@@ -223,8 +238,11 @@ def scales(
             try:
                 vel = parse_ratio(velocity)
             except ValueError:
-                raise CaseError(f"expected 'froude', 'reynolds', a group of the case or a "
-                                f"ratio, got {velocity!r}", key="--velocity") from None
+                raise CaseError(
+                    f"expected 'froude', 'reynolds', a group of the case or a "
+                    f"ratio, got {velocity!r}",
+                    key="--velocity",
+                ) from None
         f = None
         if fluid is not None:
             from compromise.errors import UnknownFluidError
@@ -241,8 +259,9 @@ def scales(
             from compromise.fluids import get_fluid
 
             try:
-                get_fluid(f or c.fluid).check(t if t is not None else c.temperature,
-                                              p if p is not None else c.pressure)
+                get_fluid(f or c.fluid).check(
+                    t if t is not None else c.temperature, p if p is not None else c.pressure
+                )
             except FluidRangeError as exc:
                 raise CaseError(str(exc), key="--temperature") from None
         tab = scale_table(c, r, vertical=vr, velocity=vel, fluid=f, temperature=t, pressure=p)
@@ -280,9 +299,17 @@ def fluids(
                 data[name] = None
                 continue
             d = props.to_dict()
-            data[name] = {k: d[k] for k in ("density", "dynamic_viscosity", "kinematic_viscosity",
-                                            "surface_tension", "speed_of_sound",
-                                            "vapour_pressure")}
+            data[name] = {
+                k: d[k]
+                for k in (
+                    "density",
+                    "dynamic_viscosity",
+                    "kinematic_viscosity",
+                    "surface_tension",
+                    "speed_of_sound",
+                    "vapour_pressure",
+                )
+            }
         if json_out:
             _print_json(data)
         else:
@@ -294,23 +321,36 @@ def fluids(
 @app.command()
 def groups(
     derive: Annotated[
-        bool, typer.Option("--derive", help="Derive a complete set of groups (Buckingham pi) "
-                           "from variables given with --var or from a case.")
+        bool,
+        typer.Option(
+            "--derive",
+            help="Derive a complete set of groups (Buckingham pi) "
+            "from variables given with --var or from a case.",
+        ),
     ] = False,
     var: Annotated[
         list[str] | None,
-        typer.Option("--var", help="A variable and its units, e.g. 'dp=Pa' or 'rho=kg/m^3' "
-                     "(repeat the option).", show_default=False),
+        typer.Option(
+            "--var",
+            help="A variable and its units, e.g. 'dp=Pa' or 'rho=kg/m^3' (repeat the option).",
+            show_default=False,
+        ),
     ] = None,
     repeating: Annotated[
         str | None,
-        typer.Option("--repeating", help="Comma-separated repeating variables, e.g. 'rho,V,D'.",
-                     show_default=False),
+        typer.Option(
+            "--repeating",
+            help="Comma-separated repeating variables, e.g. 'rho,V,D'.",
+            show_default=False,
+        ),
     ] = None,
     case: Annotated[
         Path | None,
-        typer.Option("--case", help="Take the variables from a case's quantities and fluid "
-                     "properties.", show_default=False),
+        typer.Option(
+            "--case",
+            help="Take the variables from a case's quantities and fluid properties.",
+            show_default=False,
+        ),
     ] = None,
     json_out: JsonOpt = False,
 ) -> None:
@@ -323,14 +363,26 @@ def groups(
 
         if not derive:
             if json_out:
-                _print_json({n: {"symbol": g.symbol, "expression": g.expression,
-                                 "forces": g.forces, "meaning": g.meaning,
-                                 "references": list(g.references)}
-                             for n, g in BUILTIN_GROUPS.items()})
+                _print_json(
+                    {
+                        n: {
+                            "symbol": g.symbol,
+                            "expression": g.expression,
+                            "forces": g.forces,
+                            "meaning": g.meaning,
+                            "references": list(g.references),
+                        }
+                        for n, g in BUILTIN_GROUPS.items()
+                    }
+                )
             else:
                 rows = [[n, g.symbol, g.expression, g.forces] for n, g in BUILTIN_GROUPS.items()]
-                typer.echo(table(["group", "symbol", "expression (L: characteristic length)",
-                                  "ratio of"], rows))
+                typer.echo(
+                    table(
+                        ["group", "symbol", "expression (L: characteristic length)", "ratio of"],
+                        rows,
+                    )
+                )
             return
         variables: dict[str, tuple[int, ...]] = {}
         if case is not None:
@@ -351,8 +403,9 @@ def groups(
                 raise CaseError(str(exc), key="--var") from None
             variables[name.strip()] = dim
         if len(variables) < 2:
-            raise CaseError("expected at least two variables (--var NAME=UNITS or --case)",
-                            key="--var")
+            raise CaseError(
+                "expected at least two variables (--var NAME=UNITS or --case)", key="--var"
+            )
         rep = [r.strip() for r in repeating.split(",")] if repeating else None
         try:
             derived = derive_groups(variables, rep)
@@ -371,15 +424,22 @@ def groups(
 def tolerance(
     case: CaseArg,
     quantity: Annotated[
-        str, typer.Option("--quantity", help="Friction-controlled quantity: head_loss, slope, "
-                          "pressure_drop, friction or depth.")
+        str,
+        typer.Option(
+            "--quantity",
+            help="Friction-controlled quantity: head_loss, slope, "
+            "pressure_drop, friction or depth.",
+        ),
     ],
     within: Annotated[
         str, typer.Option("--within", help="Admissible bias, e.g. '5%' or 0.05.")
     ] = "5%",
     apply: Annotated[
-        bool, typer.Option("--apply", help="Add the answer to the solver as a Reynolds floor "
-                           "and solve the case with it.")
+        bool,
+        typer.Option(
+            "--apply",
+            help="Add the answer to the solver as a Reynolds floor and solve the case with it.",
+        ),
     ] = False,
     json_out: JsonOpt = False,
 ) -> None:
@@ -395,8 +455,9 @@ def tolerance(
         try:
             tol = float(text[:-1]) / 100 if text.endswith("%") else float(text)
         except ValueError:
-            raise CaseError(f"expected a tolerance such as '5%', got {within!r}",
-                            key="--within") from None
+            raise CaseError(
+                f"expected a tolerance such as '5%', got {within!r}", key="--within"
+            ) from None
         res = reynolds_tolerance(c, quantity, tol)
         data: dict[str, Any] = {"tolerance": res.to_dict()}
         sol = None
@@ -422,8 +483,12 @@ def tolerance(
 
 OutOpt = Annotated[
     Path | None,
-    typer.Option("-o", "--out", help="Folder for the CSV, PNG and SVG files "
-                 "(default: out/<case name>/).", show_default=False),
+    typer.Option(
+        "-o",
+        "--out",
+        help="Folder for the CSV, PNG and SVG files (default: out/<case name>/).",
+        show_default=False,
+    ),
 ]
 
 
@@ -444,24 +509,38 @@ def tradeoff(
     case: CaseArg,
     between: Annotated[
         str,
-        typer.Option("--between", help="The axes, two or three, each a thing to keep small: a "
-                     "group's name (its absolute log-mismatch), 'total' (the weighted mismatch),"
-                     " a quantity's name (its model value), 'plan_area' or 'distortion'. Write "
-                     "them after the option: --between total discharge.", show_default=False),
+        typer.Option(
+            "--between",
+            help="The axes, two or three, each a thing to keep small: a "
+            "group's name (its absolute log-mismatch), 'total' (the weighted mismatch),"
+            " a quantity's name (its model value), 'plan_area' or 'distortion'. Write "
+            "them after the option: --between total discharge.",
+            show_default=False,
+        ),
     ],
     more: Annotated[
         list[str] | None,
-        typer.Argument(help="The second (and third) axis of --between.", show_default=False,
-                       metavar="AXIS..."),
+        typer.Argument(
+            help="The second (and third) axis of --between.", show_default=False, metavar="AXIS..."
+        ),
     ] = None,
     points: Annotated[
-        int, typer.Option("--points", min=2, help="Epsilon values of the final sweep (points "
-                          "on the front, before duplicates are dropped).")
+        int,
+        typer.Option(
+            "--points",
+            min=2,
+            help="Epsilon values of the final sweep (points "
+            "on the front, before duplicates are dropped).",
+        ),
     ] = 100,
     keep_limits: Annotated[
-        bool, typer.Option("--keep-limits", help="Keep the case's maxima on the axes' own "
-                           "quantities; by default they are lifted, so the front shows what "
-                           "relaxing them buys.")
+        bool,
+        typer.Option(
+            "--keep-limits",
+            help="Keep the case's maxima on the axes' own "
+            "quantities; by default they are lifted, so the front shows what "
+            "relaxing them buys.",
+        ),
     ] = False,
     out: OutOpt = None,
     json_out: JsonOpt = False,
@@ -472,8 +551,9 @@ def tradeoff(
         from compromise.tradeoff_report import format_front, write_front
         from compromise.tradeoffs import trace_front
 
-        front = trace_front(_load(case), _axes_list(between, more), points=points,
-                            lift=not keep_limits)
+        front = trace_front(
+            _load(case), _axes_list(between, more), points=points, lift=not keep_limits
+        )
         paths = write_front(front, out or Path("out") / case.stem)
         if json_out:
             _print_json(front.to_dict())
@@ -491,10 +571,14 @@ def map_(
     case: CaseArg,
     axes: Annotated[
         str | None,
-        typer.Option("--axes", help="Two decision variables among horizontal_ratio, "
-                     "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
-                     "horizontal_ratio distortion (default: those two when the case allows "
-                     "distortion, else horizontal_ratio and temperature).", show_default=False),
+        typer.Option(
+            "--axes",
+            help="Two decision variables among horizontal_ratio, "
+            "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
+            "horizontal_ratio distortion (default: those two when the case allows "
+            "distortion, else horizontal_ratio and temperature).",
+            show_default=False,
+        ),
     ] = None,
     more: Annotated[
         list[str] | None,
@@ -502,8 +586,11 @@ def map_(
     ] = None,
     fluid: Annotated[
         str | None,
-        typer.Option("--fluid", help="Model fluid of the map (default: the solver's choice).",
-                     show_default=False),
+        typer.Option(
+            "--fluid",
+            help="Model fluid of the map (default: the solver's choice).",
+            show_default=False,
+        ),
     ] = None,
     resolution: Annotated[
         int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
@@ -535,15 +622,18 @@ def map_(
 def sensitivity(
     case: CaseArg,
     spread: Annotated[
-        float, typer.Option("--spread", help="Each weight is multiplied by a factor drawn "
-                            "log-uniformly between 1/SPREAD and SPREAD.")
+        float,
+        typer.Option(
+            "--spread",
+            help="Each weight is multiplied by a factor drawn "
+            "log-uniformly between 1/SPREAD and SPREAD.",
+        ),
     ] = 10.0,
     samples: Annotated[
         int, typer.Option("--samples", min=1, help="Number of weight samples.")
     ] = 2000,
     seed: Annotated[
-        int, typer.Option("--seed", help="Seed of the random generator (same seed, same "
-                          "answer).")
+        int, typer.Option("--seed", help="Seed of the random generator (same seed, same answer).")
     ] = 0,
     out: OutOpt = None,
     json_out: JsonOpt = False,

@@ -109,8 +109,12 @@ class QuantityValue:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"prototype": self.prototype, "model": self.model, "ratio": self.ratio,
-                "unit": self.unit}
+        return {
+            "prototype": self.prototype,
+            "model": self.model,
+            "ratio": self.ratio,
+            "unit": self.unit,
+        }
 
 
 @dataclass(frozen=True)
@@ -135,8 +139,13 @@ class LimitValue:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data, as in the output contract."""
-        return {"model": self.model, "bound": self.bound, "kind": self.kind,
-                "margin": self.margin, "binding": self.binding}
+        return {
+            "model": self.model,
+            "bound": self.bound,
+            "kind": self.kind,
+            "margin": self.margin,
+            "binding": self.binding,
+        }
 
 
 @dataclass(frozen=True)
@@ -202,8 +211,12 @@ def property_log_ratios(case: Case, fluid: str, temperature: float, pressure: fl
     proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
     model = property_environment(get_fluid(fluid).properties(temperature, pressure))
     with np.errstate(invalid="ignore", divide="ignore"):
-        return np.array([math.log(model[n] / proto[n]) if model[n] > 0 and proto[n] > 0
-                         else float("nan") for n in PROPERTY_NAMES])
+        return np.array(
+            [
+                math.log(model[n] / proto[n]) if model[n] > 0 and proto[n] > 0 else float("nan")
+                for n in PROPERTY_NAMES
+            ]
+        )
 
 
 def evaluate_design(case: Case, design: Design) -> Evaluation:
@@ -217,18 +230,21 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
 
     y = design.logs
     p = property_log_ratios(case, design.fluid, design.temperature, design.pressure)
-    proto_props = property_environment(get_fluid(case.fluid).properties(case.temperature,
-                                                                        case.pressure))
-    model_props = property_environment(get_fluid(design.fluid).properties(design.temperature,
-                                                                          design.pressure))
+    proto_props = property_environment(
+        get_fluid(case.fluid).properties(case.temperature, case.pressure)
+    )
+    model_props = property_environment(
+        get_fluid(design.fluid).properties(design.temperature, design.pressure)
+    )
     results = []
     for i, cond in enumerate(case.conditions):
         vals = case.values(i)
         quantities: dict[str, QuantityValue] = {}
         for name, q in case.quantities.items():
             lr = _log_ratio(q.scaling, y, p)
-            quantities[name] = QuantityValue(vals[name], vals[name] * math.exp(lr),
-                                             math.exp(lr), q.unit)
+            quantities[name] = QuantityValue(
+                vals[name], vals[name] * math.exp(lr), math.exp(lr), q.unit
+            )
         penv = {**vals, **proto_props}
         menv = {n: v.model for n, v in quantities.items()}
         menv.update(model_props)
@@ -245,9 +261,12 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
         limits: dict[str, LimitValue] = {}
         for lim in case.limits:
             mv = quantities[lim.quantity].model
-            margin = (lim.bound - mv) / lim.bound if lim.kind == "max" else (mv - lim.bound) / lim.bound
-            limits[f"{lim.quantity}.{lim.kind}"] = LimitValue(lim.quantity, lim.kind, lim.bound,
-                                                              mv, margin)
+            margin = (
+                (lim.bound - mv) / lim.bound if lim.kind == "max" else (mv - lim.bound) / lim.bound
+            )
+            limits[f"{lim.quantity}.{lim.kind}"] = LimitValue(
+                lim.quantity, lim.kind, lim.bound, mv, margin
+            )
         for name, g in case.groups.items():
             gv = model_group[name]
             if g.min is not None:
@@ -339,14 +358,21 @@ def scale_table(
             from compromise.groups import BUILTIN_GROUPS
 
             if key not in BUILTIN_GROUPS:
-                raise CaseError(f"expected 'froude', 'reynolds', a group of the case or a ratio, "
-                                f"got {velocity!r}", key="--velocity")
-            raise CaseError(f"the case has no group '{key}'; add it under [groups] to scale "
-                            "velocity by it", file=case.path, key="groups")
+                raise CaseError(
+                    f"expected 'froude', 'reynolds', a group of the case or a ratio, "
+                    f"got {velocity!r}",
+                    key="--velocity",
+                )
+            raise CaseError(
+                f"the case has no group '{key}'; add it under [groups] to scale velocity by it",
+                file=case.path,
+                key="groups",
+            )
         g = case.groups[key]
         if g.power is None:
-            raise CaseError(f"group '{key}' is not a power product; give a velocity ratio",
-                            key="--velocity")
+            raise CaseError(
+                f"group '{key}' is not a power product; give a velocity ratio", key="--velocity"
+            )
         s = group_exponents(case, g)
         if abs(s[2]) < 1e-12:
             raise CaseError(f"group '{key}' does not involve velocity", key="--velocity")

@@ -44,9 +44,15 @@ def _feasible(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> boo
 
     if G.shape[0] == 0 and E.shape[0] == 0:
         return True
-    r = linprog(np.zeros(3), A_ub=G if G.size else None, b_ub=h if G.size else None,
-                A_eq=E if E.size else None, b_eq=e if E.size else None,
-                bounds=[(None, None)] * 3, method="highs")
+    r = linprog(
+        np.zeros(3),
+        A_ub=G if G.size else None,
+        b_ub=h if G.size else None,
+        A_eq=E if E.size else None,
+        b_eq=e if E.size else None,
+        bounds=[(None, None)] * 3,
+        method="highs",
+    )
     return r.status == 0
 
 
@@ -60,8 +66,9 @@ def _violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> fl
     A_ub = np.hstack([G, -np.eye(m), np.zeros((m, 2 * q))])
     A_eq = np.hstack([E, np.zeros((q, m)), -np.eye(q), np.eye(q)]) if q else None
     bounds = [(None, None)] * 3 + [(0, None)] * (n - 3)
-    r = linprog(c, A_ub=A_ub, b_ub=h, A_eq=A_eq, b_eq=e if q else None, bounds=bounds,
-                method="highs")
+    r = linprog(
+        c, A_ub=A_ub, b_ub=h, A_eq=A_eq, b_eq=e if q else None, bounds=bounds, method="highs"
+    )
     return float(r.fun) if r.status == 0 else math.inf
 
 
@@ -113,21 +120,30 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
         others = [j for j in range(m) if j != i]
         best = math.inf
         for hh, ee in rhs:
-            r = linprog(G[i], A_ub=G[others] if others else None,
-                        b_ub=hh[others] if others else None,
-                        A_eq=E if q else None, b_eq=ee if q else None,
-                        bounds=[(None, None)] * 3, method="highs")
+            r = linprog(
+                G[i],
+                A_ub=G[others] if others else None,
+                b_ub=hh[others] if others else None,
+                A_eq=E if q else None,
+                b_eq=ee if q else None,
+                bounds=[(None, None)] * 3,
+                method="highs",
+            )
             if r.status == 0:
                 best = min(best, float(r.fun) - float(hh[i]))
             elif r.status == 3:  # unbounded below: any bound works
                 best = min(best, 0.0)
-        relaxation[row.key] = relaxed_bound(row, max(best, 0.0) * (1 + 1e-9)) if math.isfinite(
-            best) else None
+        relaxation[row.key] = (
+            relaxed_bound(row, max(best, 0.0) * (1 + 1e-9)) if math.isfinite(best) else None
+        )
     eq_names = [*problem.exact_groups]
     for j in keep_e:
         name = eq_names[j] if j < len(eq_names) else f"equality {j}"
-        key = f"model.{name}" if name in ("horizontal_ratio", "distortion", "velocity_ratio") \
+        key = (
+            f"model.{name}"
+            if name in ("horizontal_ratio", "distortion", "velocity_ratio")
             else f"groups.{name}.exact"
+        )
         keys.append(key)
         relaxation[key] = None
         conditions[key] = None

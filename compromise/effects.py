@@ -52,11 +52,22 @@ class ThresholdCheck:
     def to_dict(self) -> dict[str, Any]:
         """Plain data, with the threshold's source."""
         t = self.threshold
-        return {"phenomenon": t.phenomenon, "name": t.name, "label": t.label,
-                "condition": self.condition, "prototype": self.prototype, "model": self.model,
-                "kind": t.kind, "failing": t.failing, "passing": t.passing, "unit": t.unit,
-                "verdict": self.verdict, "margin": self.margin, "source": t.source,
-                "status": t.status}
+        return {
+            "phenomenon": t.phenomenon,
+            "name": t.name,
+            "label": t.label,
+            "condition": self.condition,
+            "prototype": self.prototype,
+            "model": self.model,
+            "kind": t.kind,
+            "failing": t.failing,
+            "passing": t.passing,
+            "unit": t.unit,
+            "verdict": self.verdict,
+            "margin": self.margin,
+            "source": t.source,
+            "status": t.status,
+        }
 
 
 @dataclass(frozen=True)
@@ -76,8 +87,14 @@ class Regime:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"group": self.group, "kind": self.kind, "condition": self.condition,
-                "prototype": self.prototype, "model": self.model, "changed": self.changed}
+        return {
+            "group": self.group,
+            "kind": self.kind,
+            "condition": self.condition,
+            "prototype": self.prototype,
+            "model": self.model,
+            "changed": self.changed,
+        }
 
 
 @dataclass(frozen=True)
@@ -92,8 +109,13 @@ class Consequence:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"kind": self.kind, "condition": self.condition, **self.values,
-                "message": self.message, "flag": self.flag}
+        return {
+            "kind": self.kind,
+            "condition": self.condition,
+            **self.values,
+            "message": self.message,
+            "flag": self.flag,
+        }
 
 
 @dataclass(frozen=True)
@@ -107,10 +129,12 @@ class Effects:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data: risks first (regime changes, failed thresholds)."""
-        return {"risks": list(self.risks),
-                "regimes": [r.to_dict() for r in self.regimes],
-                "thresholds": [c.to_dict() for c in self.checks],
-                "consequences": [c.to_dict() for c in self.consequences]}
+        return {
+            "risks": list(self.risks),
+            "regimes": [r.to_dict() for r in self.regimes],
+            "thresholds": [c.to_dict() for c in self.checks],
+            "consequences": [c.to_dict() for c in self.consequences],
+        }
 
 
 # --------------------------------------------------------------------------------------------
@@ -123,8 +147,7 @@ def _envs(case: Case, evaluation: Evaluation, cond: ConditionResult) -> tuple[di
     from compromise.problem import property_environment
 
     d = evaluation.design
-    proto = property_environment(get_fluid(case.fluid).properties(case.temperature,
-                                                                  case.pressure))
+    proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
     model = property_environment(get_fluid(d.fluid).properties(d.temperature, d.pressure))
     penv = {n: q.prototype for n, q in cond.quantities.items()} | proto
     menv = {n: q.model for n, q in cond.quantities.items()} | model
@@ -184,8 +207,11 @@ def _length_of(group: Group, case: Case) -> str | None:
     """The characteristic length quantity of a Reynolds-type group (its only length)."""
     if group.power is None:
         return None
-    lengths = [n for n in group.power[1] if n in case.quantities
-               and case.quantities[n].dimension == (0, 1, 0, 0)]
+    lengths = [
+        n
+        for n in group.power[1]
+        if n in case.quantities and case.quantities[n].dimension == (0, 1, 0, 0)
+    ]
     return lengths[0] if len(lengths) == 1 else None
 
 
@@ -234,32 +260,52 @@ def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:
                 for env, re in ((penv, gv.prototype), (menv, gv.model)):
                     if "roughness" in env and length is not None and re >= hi:
                         dh = env[length] if length == "diameter" else 4.0 * env[length]
-                        f = friction_factor(4.0 * re if length != "diameter" else re,
-                                            env["roughness"] / dh)
-                        ks.append(env["velocity"] * math.sqrt(f / 8) * env["roughness"]
-                                  / env["nu"])
+                        f = friction_factor(
+                            4.0 * re if length != "diameter" else re, env["roughness"] / dh
+                        )
+                        ks.append(env["velocity"] * math.sqrt(f / 8) * env["roughness"] / env["nu"])
                     else:
                         ks.append(None)
-                out.append(Regime(name, "viscous", cond.name,
-                                  _viscous_regime(gv.prototype, lo, hi, ks[0]),
-                                  _viscous_regime(gv.model, lo, hi, ks[1])))
+                out.append(
+                    Regime(
+                        name,
+                        "viscous",
+                        cond.name,
+                        _viscous_regime(gv.prototype, lo, hi, ks[0]),
+                        _viscous_regime(gv.model, lo, hi, ks[1]),
+                    )
+                )
             elif name == "froude" or (g.builtin and name == "densimetric_froude"):
-                out.append(Regime(name, "froude", cond.name,
-                                  "supercritical" if gv.prototype > 1 else "subcritical",
-                                  "supercritical" if gv.model > 1 else "subcritical"))
+                out.append(
+                    Regime(
+                        name,
+                        "froude",
+                        cond.name,
+                        "supercritical" if gv.prototype > 1 else "subcritical",
+                        "supercritical" if gv.model > 1 else "subcritical",
+                    )
+                )
             elif name == "mach":
-                out.append(Regime(name, "compressibility", cond.name,
-                                  "compressible" if gv.prototype >= 0.3 else "incompressible",
-                                  "compressible" if gv.model >= 0.3 else "incompressible"))
+                out.append(
+                    Regime(
+                        name,
+                        "compressibility",
+                        cond.name,
+                        "compressible" if gv.prototype >= 0.3 else "incompressible",
+                        "compressible" if gv.model >= 0.3 else "incompressible",
+                    )
+                )
         if "wave_period" in penv:
             depth = next((penv[n] for n in ("water_depth", "depth") if n in penv), None)
             names = []
             for env in (penv, menv):
                 h = env.get("water_depth", env.get("depth", 1e3)) if depth else 1e3
                 k = _wavenumber(env["wave_period"], h, env["g"], env["sigma"], env["rho"])
-                names.append("capillary waves" if k > math.sqrt(env["rho"] * env["g"]
-                                                                 / env["sigma"])
-                             else "gravity waves")
+                names.append(
+                    "capillary waves"
+                    if k > math.sqrt(env["rho"] * env["g"] / env["sigma"])
+                    else "gravity waves"
+                )
             out.append(Regime("wave_period", "waves", cond.name, names[0], names[1]))
     return tuple(out)
 
@@ -281,15 +327,24 @@ def consequences(case: Case, evaluation: Evaluation) -> tuple[Consequence, ...]:
             re_p = _value("velocity * length / nu", penv, al)
             re_m = _value("velocity * length / nu", menv, al)
             cf_p, cf_m = ittc_1957(re_p), ittc_1957(re_m)
-            out.append(Consequence(
-                "ittc", cond.name,
-                {"reynolds_model": re_m, "reynolds_ship": re_p, "cf_model": cf_m,
-                 "cf_ship": cf_p, "correction": cf_m - cf_p,
-                 "correction_fraction": (cf_m - cf_p) / cf_m},
-                f"ITTC-1957 line: C_F {cf_m:.5f} in the model, {cf_p:.5f} for the ship; "
-                f"subtract {cf_m - cf_p:.5f} ({(cf_m - cf_p) / cf_m:.0%} of the model's C_F) "
-                "from the model's total resistance coefficient to carry it to the ship "
-                "(ITTC 1957; ITTC 7.5-02-02-02)"))
+            out.append(
+                Consequence(
+                    "ittc",
+                    cond.name,
+                    {
+                        "reynolds_model": re_m,
+                        "reynolds_ship": re_p,
+                        "cf_model": cf_m,
+                        "cf_ship": cf_p,
+                        "correction": cf_m - cf_p,
+                        "correction_fraction": (cf_m - cf_p) / cf_m,
+                    },
+                    f"ITTC-1957 line: C_F {cf_m:.5f} in the model, {cf_p:.5f} for the ship; "
+                    f"subtract {cf_m - cf_p:.5f} ({(cf_m - cf_p) / cf_m:.0%} of the model's C_F) "
+                    "from the model's total resistance coefficient to carry it to the ship "
+                    "(ITTC 1957; ITTC 7.5-02-02-02)",
+                )
+            )
     return tuple(out)
 
 
@@ -319,12 +374,21 @@ def _friction(case: Case, cond: str, penv: dict, menv: dict, r: dict) -> list[Co
     f_m = friction_factor(re_m, menv["roughness"] / dh_m)
     f_req = f_p * required_ratio
     bias = f_m / f_req
-    values = {"reynolds_prototype": re_p, "reynolds_model": re_m, "f_prototype": f_p,
-              "f_model": f_m, "f_required": f_req, "head_loss_bias": bias - 1,
-              "slope_bias": bias - 1, "depth_bias": bias ** (1 / 3) - 1}
-    msg = (f"Darcy f {f_m:.4f} in the model where {f_req:.4f} is needed ({where}; "
-           f"Colebrook-White): in prototype terms head loss and slope {bias - 1:+.1%}, "
-           f"depth at a given discharge {bias ** (1 / 3) - 1:+.1%}")
+    values = {
+        "reynolds_prototype": re_p,
+        "reynolds_model": re_m,
+        "f_prototype": f_p,
+        "f_model": f_m,
+        "f_required": f_req,
+        "head_loss_bias": bias - 1,
+        "slope_bias": bias - 1,
+        "depth_bias": bias ** (1 / 3) - 1,
+    }
+    msg = (
+        f"Darcy f {f_m:.4f} in the model where {f_req:.4f} is needed ({where}; "
+        f"Colebrook-White): in prototype terms head loss and slope {bias - 1:+.1%}, "
+        f"depth at a given discharge {bias ** (1 / 3) - 1:+.1%}"
+    )
     flag = "warning" if abs(bias - 1) > 0.05 else ""
     return [Consequence("friction", cond, values, msg, flag)]
 
@@ -343,29 +407,40 @@ def _manning(case: Case, cond: str, penv: dict, menv: dict, r: dict) -> list[Con
     n_ratio = rr ** (2 / 3) * math.sqrt(r["Y"] / r["X"]) / r["V"]
     n_m = n_p * n_ratio
     lo, hi = SMOOTH_MATERIALS_N
-    values: dict[str, float | str | None] = {"n_prototype": n_p, "n_model": n_m,
-                                             "n_ratio": n_ratio, "form": form}
+    values: dict[str, float | str | None] = {
+        "n_prototype": n_p,
+        "n_model": n_m,
+        "n_ratio": n_ratio,
+        "form": form,
+    }
     if n_m < lo:
-        msg = (f"the model needs Manning n = {n_m:.4f} ({form}), smoother than glass or "
-               f"acrylic ({lo}-{hi}; Chow 1959, Table 5-6): not buildable")
-        return [Consequence("manning", cond, values | {"added_roughness": None}, msg,
-                            "infeasible")]
+        msg = (
+            f"the model needs Manning n = {n_m:.4f} ({form}), smoother than glass or "
+            f"acrylic ({lo}-{hi}; Chow 1959, Table 5-6): not buildable"
+        )
+        return [Consequence("manning", cond, values | {"added_roughness": None}, msg, "infeasible")]
     if n_m <= hi:
-        msg = (f"the model needs Manning n = {n_m:.4f} ({form}): smooth glass or acrylic "
-               f"({lo}-{hi}; Chow 1959, Table 5-6)")
+        msg = (
+            f"the model needs Manning n = {n_m:.4f} ({form}): smooth glass or acrylic "
+            f"({lo}-{hi}; Chow 1959, Table 5-6)"
+        )
         return [Consequence("manning", cond, values | {"added_roughness": None}, msg)]
     ks = strickler_roughness(n_m)
     depth = menv.get("hydraulic_radius", menv.get("depth"))
     if depth is not None and ks > 0.2 * depth:
         # Strickler's law describes grain roughness well below the flow depth (common practice)
-        msg = (f"the model needs Manning n = {n_m:.4f} ({form}); as sand roughness this would be "
-               f"ks = {ks * 1000:.0f} mm, more than a fifth of the model depth "
-               f"({depth * 1000:.0f} mm): use roughness elements (vertical rods, strips or "
-               "cubes) and calibrate them against prototype stage-discharge data")
+        msg = (
+            f"the model needs Manning n = {n_m:.4f} ({form}); as sand roughness this would be "
+            f"ks = {ks * 1000:.0f} mm, more than a fifth of the model depth "
+            f"({depth * 1000:.0f} mm): use roughness elements (vertical rods, strips or "
+            "cubes) and calibrate them against prototype stage-discharge data"
+        )
         return [Consequence("manning", cond, values | {"added_roughness": ks}, msg, "warning")]
-    msg = (f"the model needs Manning n = {n_m:.4f} ({form}), rougher than smooth materials: "
-           f"add roughness of about ks = {ks * 1000:.2f} mm equivalent sand (Strickler), "
-           "then calibrate against prototype stage-discharge data")
+    msg = (
+        f"the model needs Manning n = {n_m:.4f} ({form}), rougher than smooth materials: "
+        f"add roughness of about ks = {ks * 1000:.2f} mm equivalent sand (Strickler), "
+        "then calibrate against prototype stage-discharge data"
+    )
     return [Consequence("manning", cond, values | {"added_roughness": ks}, msg, "warning")]
 
 
@@ -374,12 +449,19 @@ def assess(case: Case, evaluation: Evaluation) -> Effects:
     checks = check_thresholds(case, evaluation)
     regs = regimes(case, evaluation)
     cons = consequences(case, evaluation)
-    risks = [f"regime change in '{r.condition}': {r.group} is {r.prototype} in the prototype "
-             f"but {r.model} in the model" for r in regs if r.changed]
-    risks += [f"{c.threshold.label} fails in '{c.condition}': model {c.model:.4g} "
-              f"{'<' if c.threshold.kind == 'min' else '>'} {c.threshold.failing:.4g} "
-              f"({c.threshold.source}; {c.threshold.status})"
-              for c in checks if c.verdict == "fail"]
+    risks = [
+        f"regime change in '{r.condition}': {r.group} is {r.prototype} in the prototype "
+        f"but {r.model} in the model"
+        for r in regs
+        if r.changed
+    ]
+    risks += [
+        f"{c.threshold.label} fails in '{c.condition}': model {c.model:.4g} "
+        f"{'<' if c.threshold.kind == 'min' else '>'} {c.threshold.failing:.4g} "
+        f"({c.threshold.source}; {c.threshold.status})"
+        for c in checks
+        if c.verdict == "fail"
+    ]
     risks += [f"{c.message} [{c.condition}]" for c in cons if c.flag == "infeasible"]
     return Effects(checks, regs, cons, tuple(risks))
 
@@ -397,14 +479,21 @@ def with_thresholds(case: Case) -> Case:
     groups = dict(case.groups)
     for phen, aliases in case.phenomena.items():
         for t in thresholds_for(phen):
-            tree = ex.substitute(ex.parse(t.expression),
-                                 {k: ex.parse(v) for k, v in aliases.items()})
+            tree = ex.substitute(
+                ex.parse(t.expression), {k: ex.parse(v) for k, v in aliases.items()}
+            )
             name = f"{phen}.{t.name}"
             groups[name] = Group(
-                name=name, expression=tree, text=ex.to_text(tree), weight=0.0,
+                name=name,
+                expression=tree,
+                text=ex.to_text(tree),
+                weight=0.0,
                 min=t.passing if t.kind == "min" else None,
                 max=t.passing if t.kind == "max" else None,
-                power=ex.power_product(tree), description=t.label, threshold=True)
+                power=ex.power_product(tree),
+                description=t.label,
+                threshold=True,
+            )
     return dataclasses.replace(case, groups=groups)
 
 
@@ -412,7 +501,11 @@ def with_thresholds(case: Case) -> Case:
 # how much Reynolds mismatch is acceptable
 
 TOLERANCE_QUANTITIES = {
-    "head_loss": 1.0, "slope": 1.0, "pressure_drop": 1.0, "friction": 1.0, "depth": 1 / 3,
+    "head_loss": 1.0,
+    "slope": 1.0,
+    "pressure_drop": 1.0,
+    "friction": 1.0,
+    "depth": 1 / 3,
 }
 
 
@@ -444,25 +537,31 @@ def reynolds_tolerance(case: Case, quantity: str, within: float, condition: int 
     from scipy.optimize import brentq
 
     if quantity not in TOLERANCE_QUANTITIES:
-        raise CaseError(f"expected one of {', '.join(TOLERANCE_QUANTITIES)}, got {quantity!r}",
-                        key="--quantity")
+        raise CaseError(
+            f"expected one of {', '.join(TOLERANCE_QUANTITIES)}, got {quantity!r}", key="--quantity"
+        )
     if not 0 < within < 1:
-        raise CaseError(f"expected a tolerance between 0 and 100 %, got {within:.4g}",
-                        key="--within")
+        raise CaseError(
+            f"expected a tolerance between 0 and 100 %, got {within:.4g}", key="--within"
+        )
     vals = case.values(condition)
     from compromise.problem import prototype_environment
 
     env = prototype_environment(case, condition)
     if "roughness" not in vals or "velocity" not in vals:
-        raise CaseError("needs prototype quantities 'velocity' and 'roughness' (and 'depth' or "
-                        "'diameter')", file=case.path, key="prototype.quantities")
+        raise CaseError(
+            "needs prototype quantities 'velocity' and 'roughness' (and 'depth' or 'diameter')",
+            file=case.path,
+            key="prototype.quantities",
+        )
     if "diameter" in vals:
         dh = vals["diameter"]
     elif "depth" in vals:
         dh = 4.0 * vals["depth"]
     else:
-        raise CaseError("needs a prototype 'depth' or 'diameter'", file=case.path,
-                        key="prototype.quantities")
+        raise CaseError(
+            "needs a prototype 'depth' or 'diameter'", file=case.path, key="prototype.quantities"
+        )
     rel = vals["roughness"] / dh
     re_p = vals["velocity"] * dh / env["nu"]
     power = TOLERANCE_QUANTITIES[quantity]
@@ -479,12 +578,16 @@ def reynolds_tolerance(case: Case, quantity: str, within: float, condition: int 
         re_min = math.exp(lo)
     else:
         re_min = math.exp(brentq(bias, lo, math.log(re_p), xtol=1e-12))
-    basis = (f"Darcy friction factor by Colebrook-White at relative roughness {rel:.3g} "
-             f"(hydraulic diameter {'D' if 'diameter' in vals else '4 x depth'}); "
-             f"{quantity} bias = (f_model / f_prototype)^{power:.3g} - 1 <= {within:.1%}")
+    basis = (
+        f"Darcy friction factor by Colebrook-White at relative roughness {rel:.3g} "
+        f"(hydraulic diameter {'D' if 'diameter' in vals else '4 x depth'}); "
+        f"{quantity} bias = (f_model / f_prototype)^{power:.3g} - 1 <= {within:.1%}"
+    )
     if clamped:
-        basis += ("; the bias stays inside the tolerance down to the lowest Reynolds number "
-                  "considered (turbulent flow, 4000 on the hydraulic diameter)")
+        basis += (
+            "; the bias stays inside the tolerance down to the lowest Reynolds number "
+            "considered (turbulent flow, 4000 on the hydraulic diameter)"
+        )
     return Tolerance(quantity, within, case.conditions[condition].name, re_p, re_min, rel, basis)
 
 
@@ -506,11 +609,19 @@ def apply_tolerance(case: Case, tol: Tolerance) -> tuple[Case, float]:
         floor = tol.reynolds_min * factor
         new = dataclasses.replace(g, min=max(g.min or 0.0, floor))
     else:
-        tree = ex.substitute(ex.parse(BUILTIN_GROUPS["reynolds"].expression),
-                             {"L": ex.parse(length)})
+        tree = ex.substitute(
+            ex.parse(BUILTIN_GROUPS["reynolds"].expression), {"L": ex.parse(length)}
+        )
         floor = tol.reynolds_min * factor
-        new = Group(name="reynolds", expression=tree, text=ex.to_text(tree), weight=0.0,
-                    min=floor, builtin=True, power=ex.power_product(tree))
+        new = Group(
+            name="reynolds",
+            expression=tree,
+            text=ex.to_text(tree),
+            weight=0.0,
+            min=floor,
+            builtin=True,
+            power=ex.power_product(tree),
+        )
     return dataclasses.replace(case, groups={**case.groups, "reynolds": new}), floor
 
 

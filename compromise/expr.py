@@ -530,6 +530,7 @@ def dimension(expr: Expr, dims: Mapping[str, Sequence[float]]) -> tuple[float, f
 
     return analyse(expr, dims)
 
+
 __all__ = [
     "FUNCTIONS",
     "PROPERTY_DIMENSIONS",

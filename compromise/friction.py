@@ -72,7 +72,9 @@ def friction_factor_haaland(reynolds: float, relative_roughness: float) -> float
 
 
 def friction_factor_fully_rough(relative_roughness: float) -> float:
-    r"""Darcy friction factor in the fully rough limit, :math:`1/\sqrt f = -2\log_{10}(\epsilon/3.7D)`.
+    r"""Darcy friction factor in the fully rough limit.
+
+    .. math:: 1/\sqrt f = -2\log_{10}(\epsilon / 3.7 D)
 
     References
     ----------
@@ -83,7 +85,9 @@ def friction_factor_fully_rough(relative_roughness: float) -> float:
     return 1.0 / (x * x)
 
 
-def friction_factor(reynolds: float, relative_roughness: float, *, method: str = "colebrook") -> float:
+def friction_factor(
+    reynolds: float, relative_roughness: float, *, method: str = "colebrook"
+) -> float:
     """Darcy friction factor: 64/Re when laminar, else the chosen turbulent law.
 
     Parameters

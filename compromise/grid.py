@@ -69,8 +69,11 @@ class Engine:
         if h_shift is not None:
             h = h + h_shift
         if self.extra.shape[0]:
-            ex_e = np.zeros((p.shape[0], self.extra.shape[0])) if extra_e is None else (
-                np.broadcast_to(extra_e, (p.shape[0], self.extra.shape[0])))
+            ex_e = (
+                np.zeros((p.shape[0], self.extra.shape[0]))
+                if extra_e is None
+                else (np.broadcast_to(extra_e, (p.shape[0], self.extra.shape[0])))
+            )
             e = np.hstack([e, ex_e])
         return f, h, e, const
 
@@ -121,23 +124,39 @@ class FluidStates:
 
         penv = property_environment(proto)
         # gravity is the same in model and prototype: its log-ratio is zero
-        self.proto_log = np.array([0.0 if n == "g" else math.log(penv[n]) if penv[n] > 0
-                                   else np.nan for n in PROPERTY_NAMES])
+        self.proto_log = np.array(
+            [
+                0.0 if n == "g" else math.log(penv[n]) if penv[n] > 0 else np.nan
+                for n in PROPERTY_NAMES
+            ]
+        )
         self.used = np.array([n in used for n in PROPERTY_NAMES])
         self.gas = self.fluid.phase == "gas"
         m = case.model
         self.t_range = m.temperature
-        missing = [n for n in PROPERTY_NAMES[:-1]
-                   if n in used and not np.isfinite(self._p(np.array([m.temperature[0]]),
-                                                            m.pressure[0])[0][PROPERTY_NAMES.index(n)])]
+        missing = [
+            n
+            for n in PROPERTY_NAMES[:-1]
+            if n in used
+            and not np.isfinite(
+                self._p(np.array([m.temperature[0]]), m.pressure[0])[0][PROPERTY_NAMES.index(n)]
+            )
+        ]
         if missing:
-            raise CaseError(f"'{self.name}' has no {missing[0]} (as the groups or limits need)",
-                            file=case.path, key="model.fluids")
+            raise CaseError(
+                f"'{self.name}' has no {missing[0]} (as the groups or limits need)",
+                file=case.path,
+                key="model.fluids",
+            )
 
     def _p(self, T: np.ndarray, P: float) -> np.ndarray:
         tab = self.fluid.table(P)(np.asarray(T, dtype=float))
-        logs = np.column_stack([np.log(tab[k]) if k != "g" else np.zeros(len(T))
-                                for k in ("rho", "mu", "nu", "sigma", "c", "g")])
+        logs = np.column_stack(
+            [
+                np.log(tab[k]) if k != "g" else np.zeros(len(T))
+                for k in ("rho", "mu", "nu", "sigma", "c", "g")
+            ]
+        )
         p = logs - self.proto_log
         p[:, ~self.used] = 0.0
         return p
@@ -152,8 +171,12 @@ class FluidStates:
 
         env = property_environment(self.fluid.properties(T, P))
         with np.errstate(invalid="ignore", divide="ignore"):
-            logs = np.array([0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
-                             for n in PROPERTY_NAMES])
+            logs = np.array(
+                [
+                    0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
+                    for n in PROPERTY_NAMES
+                ]
+            )
         p = logs - self.proto_log
         p[~self.used] = 0.0
         return p
@@ -207,8 +230,11 @@ def best_state(
             half = math.log(Ps[1] / Ps[0])
             lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
             for _ in range(ZOOM_ROUNDS):
-                lp = np.linspace(max(lp_lo, math.log(p_best) - half),
-                                 min(lp_hi, math.log(p_best) + half), N_ZOOM_PRESSURE)
+                lp = np.linspace(
+                    max(lp_lo, math.log(p_best) - half),
+                    min(lp_hi, math.log(p_best) + half),
+                    N_ZOOM_PRESSURE,
+                )
                 pz = np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
                 _, obj = engine.solve(pz, h_shift, extra_e)
                 k = int(np.argmin(obj))
@@ -266,8 +292,9 @@ def best_states(
     liquids = [i for i, fs in enumerate(fss) if fs.pressures().size == 1]
     for i, fs in enumerate(fss):
         if i not in liquids:
-            out[i] = best_state(engine, fs, n_temperatures=n_temperatures, h_shift=h_shift,
-                                extra_e=extra_e)
+            out[i] = best_state(
+                engine, fs, n_temperatures=n_temperatures, h_shift=h_shift, extra_e=extra_e
+            )
     if not liquids:
         return out
     P = {i: float(fss[i].pressures()[0]) for i in liquids}
@@ -279,7 +306,7 @@ def best_states(
     start = 0
     for i in liquids:
         n = grids[i].size
-        o = obj[start:start + n]
+        o = obj[start : start + n]
         start += n
         k = int(np.argmin(o))
         if np.isfinite(o[k]):
@@ -290,12 +317,13 @@ def best_states(
         Tz = {}
         for i in zoom:
             lo, hi = fss[i].t_range
-            Tz[i] = np.linspace(max(lo, best[i][1] - half[i]), min(hi, best[i][1] + half[i]),
-                                N_ZOOM)
+            Tz[i] = np.linspace(
+                max(lo, best[i][1] - half[i]), min(hi, best[i][1] + half[i]), N_ZOOM
+            )
         p_all = np.vstack([fss[i].p(Tz[i], P[i]) for i in zoom])
         _, obj = engine.solve(p_all, h_shift, extra_e)
         for j, i in enumerate(zoom):
-            o = obj[j * N_ZOOM:(j + 1) * N_ZOOM]
+            o = obj[j * N_ZOOM : (j + 1) * N_ZOOM]
             k = int(np.argmin(o))
             if o[k] < best[i][0]:
                 best[i] = [float(o[k]), float(Tz[i][k])]

@@ -44,8 +44,9 @@ class FullObjective:
         self.case, self.problem, self.fs = case, problem, fs
         self.h_shift = np.zeros(problem.G.shape[0]) if h_shift is None else h_shift
         self.fix_x = fix_x
-        proto = property_environment(get_fluid(case.fluid).properties(case.temperature,
-                                                                      case.pressure))
+        proto = property_environment(
+            get_fluid(case.fluid).properties(case.temperature, case.pressure)
+        )
         self.proto_props = proto
         self.values = [case.values(i) for i in range(len(case.conditions))]
         self.names = problem.nonlinear_groups
@@ -72,8 +73,9 @@ class FullObjective:
         pr = self.problem
         r = pr.A @ y + pr.B @ p
         total = float(np.sum(pr.W * r**2))
-        for c, (model, proto) in enumerate(zip(self.group_values(y, p), self.proto_group,
-                                               strict=True)):
+        for c, (model, proto) in enumerate(
+            zip(self.group_values(y, p), self.proto_group, strict=True)
+        ):
             w = self.case.conditions[c].weight
             for g, mv, pv in zip(self.groups, model, proto, strict=True):
                 if g.exact or g.weight == 0:
@@ -145,8 +147,14 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
     cons = [{"type": "ineq", "fun": g_ineq}]
     if pr.E.shape[0] or any(g.exact for g in obj.groups) or obj.fix_x is not None:
         cons.append({"type": "eq", "fun": g_eq})
-    r = minimize(f, u0, method="SLSQP", bounds=bounds, constraints=cons,
-                 options={"ftol": 1e-14, "maxiter": 400})
+    r = minimize(
+        f,
+        u0,
+        method="SLSQP",
+        bounds=bounds,
+        constraints=cons,
+        options={"ftol": 1e-14, "maxiter": 400},
+    )
     u = r.x
     ok = np.all(g_ineq(u) >= -1e-8)
     if len(cons) > 1:
@@ -154,7 +162,7 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
     return (float(f(u)) if ok else math.inf), u
 
 
-def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int):  # noqa: ANN201
+def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int):
     """Best state of one fluid for the full problem (or None when infeasible)."""
     from compromise.solver import State, _grid
 
@@ -184,8 +192,15 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
     return State(fs.name, float(t), float(P), u[:3].copy(), float(val))
 
 
-def _all_fluids(case: Case, problem: Problem, engine: object, n_temperatures: int,
-                *, h_shift: np.ndarray | None = None, fix_x: float | None = None) -> dict:
+def _all_fluids(
+    case: Case,
+    problem: Problem,
+    engine: object,
+    n_temperatures: int,
+    *,
+    h_shift: np.ndarray | None = None,
+    fix_x: float | None = None,
+) -> dict:
     """Best nonlinear state of every model fluid (None where infeasible)."""
     from compromise.solver import FluidStates
 
@@ -197,8 +212,9 @@ def _all_fluids(case: Case, problem: Problem, engine: object, n_temperatures: in
     return out
 
 
-def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
-                    alternatives: bool) -> Solution:
+def solve_nonlinear(
+    case: Case, problem: Problem, *, n_temperatures: int, alternatives: bool
+) -> Solution:
     """Solve a case that has groups which are not power products (see the module docstring).
 
     Binding rows are priced by re-solving with the bound relaxed (10 % for the drop, 0.1 % for
@@ -233,26 +249,39 @@ def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
     if alternatives:
         for f, st in per_fluid.items():
             d = _design(st) if st else None
-            alts.append(Alternative("fluid", f, d, st.objective if st else math.inf,
-                                    _separator(case, best_eval, evaluate_design(case, d))
-                                    if d else "infeasible"))
+            alts.append(
+                Alternative(
+                    "fluid",
+                    f,
+                    d,
+                    st.objective if st else math.inf,
+                    _separator(case, best_eval, evaluate_design(case, d)) if d else "infeasible",
+                )
+            )
         if case.model.preferred_ratios:
             fixed = Engine(problem, extra_E=np.array([[1.0, 0.0, 0.0]]))
             for r in case.model.preferred_ratios:
-                st = ranked(_all_fluids(case, problem, fixed, n_temperatures,
-                                        fix_x=math.log(r)))
+                st = ranked(_all_fluids(case, problem, fixed, n_temperatures, fix_x=math.log(r)))
                 d = _design(st) if st else None
-                alts.append(Alternative("ratio", format_ratio(r), d,
-                                        st.objective if st else math.inf,
-                                        _separator(case, best_eval, evaluate_design(case, d))
-                                        if d else "infeasible"))
+                alts.append(
+                    Alternative(
+                        "ratio",
+                        format_ratio(r),
+                        d,
+                        st.objective if st else math.inf,
+                        _separator(case, best_eval, evaluate_design(case, d))
+                        if d
+                        else "infeasible",
+                    )
+                )
         alts.sort(key=lambda a: (a.objective, a.kind, a.label))
     if best is None:
         from compromise.diagnose import diagnose
 
         states = {f: FluidStates(case, f, problem.used_properties) for f in case.model.fluids}
-        return Solution(case, "infeasible", math.inf, None, None, {}, tuple(alts),
-                        diagnose(problem, states))
+        return Solution(
+            case, "infeasible", math.inf, None, None, {}, tuple(alts), diagnose(problem, states)
+        )
     design: Design = _design(best)
     ev = evaluate_design(case, design)
     binding: dict[str, BindingCost] = {}
@@ -270,8 +299,13 @@ def solve_nonlinear(case: Case, problem: Problem, *, n_temperatures: int,
                 st = ranked(_all_fluids(case, problem, engine, n_temperatures, h_shift=hs))
                 objs.append(st.objective if st else best.objective)
             rate = max(0.0, (best.objective - objs[1]) / small)
-            binding[row.key] = BindingCost(row.key, row.condition, rate, rate * shift,
-                                           max(0.0, best.objective - objs[0]),
-                                           relaxed_bound(row, shift))
+            binding[row.key] = BindingCost(
+                row.key,
+                row.condition,
+                rate,
+                rate * shift,
+                max(0.0, best.objective - objs[0]),
+                relaxed_bound(row, shift),
+            )
     # the objective from the source property models (the SLSQP runs on the splines)
     return Solution(case, "optimal", ev.objective, design, ev, binding, tuple(alts))

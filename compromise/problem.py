@@ -206,12 +206,20 @@ def build_problem(case: Case) -> Problem:
         # model value = proto * exp(a.y + b.p):  floor  a.y >= ln(min/proto) - b.p
         if g.min is not None:
             i = int(np.argmin(proto))
-            add(-a, -math.log(g.min / proto[i]), b, Row("group", name, "min", g.min,
-                                                        which(proto, i), f"groups.{name}.min"))
+            add(
+                -a,
+                -math.log(g.min / proto[i]),
+                b,
+                Row("group", name, "min", g.min, which(proto, i), f"groups.{name}.min"),
+            )
         if g.max is not None:
             i = int(np.argmax(proto))
-            add(a, math.log(g.max / proto[i]), -b, Row("group", name, "max", g.max,
-                                                       which(proto, i), f"groups.{name}.max"))
+            add(
+                a,
+                math.log(g.max / proto[i]),
+                -b,
+                Row("group", name, "max", g.max, which(proto, i), f"groups.{name}.max"),
+            )
 
     for lim in case.limits:
         q = case.quantities[lim.quantity]
@@ -221,12 +229,20 @@ def build_problem(case: Case) -> Problem:
         key = f"limits.{lim.quantity}.{lim.kind}"
         if lim.kind == "max":
             i = int(np.argmax(vals))
-            add(s[:nd], math.log(lim.bound / vals[i]), -s[nd:],
-                Row("limit", lim.quantity, "max", lim.bound, which(vals, i), key))
+            add(
+                s[:nd],
+                math.log(lim.bound / vals[i]),
+                -s[nd:],
+                Row("limit", lim.quantity, "max", lim.bound, which(vals, i), key),
+            )
         else:
             i = int(np.argmin(vals))
-            add(-s[:nd], -math.log(lim.bound / vals[i]), s[nd:],
-                Row("limit", lim.quantity, "min", lim.bound, which(vals, i), key))
+            add(
+                -s[:nd],
+                -math.log(lim.bound / vals[i]),
+                s[nd:],
+                Row("limit", lim.quantity, "min", lim.bound, which(vals, i), key),
+            )
 
     zero = np.zeros(len(PROPERTY_NAMES))
     x = np.array([1.0, 0.0, 0.0])

@@ -87,8 +87,9 @@ class SmallQP:
             tuples = list(itertools.combinations(range(m), k))
             combos = np.array(tuples, dtype=int).reshape(len(tuples), k)
             nc = ne + k
-            C = np.concatenate([np.broadcast_to(Ek, (len(combos), ne, n)), self.G[combos]],
-                               axis=1)  # (s, nc, n)
+            C = np.concatenate(
+                [np.broadcast_to(Ek, (len(combos), ne, n)), self.G[combos]], axis=1
+            )  # (s, nc, n)
             if nc:
                 sv = np.linalg.svd(C, compute_uv=False)  # (s, nc)
                 ok = sv[:, -1] > 1e-10 * np.maximum(sv[:, 0], 1.0)
@@ -124,10 +125,14 @@ class SmallQP:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
         f = np.atleast_2d(np.asarray(f, dtype=float))
         N = f.shape[0]
-        h = np.broadcast_to(np.asarray(h, dtype=float).reshape(-1, self.m) if self.m
-                            else np.zeros((1, 0)), (N, self.m))
-        e = np.broadcast_to(np.asarray(e, dtype=float).reshape(-1, self.q) if self.q
-                            else np.zeros((1, 0)), (N, self.q))
+        h = np.broadcast_to(
+            np.asarray(h, dtype=float).reshape(-1, self.m) if self.m else np.zeros((1, 0)),
+            (N, self.m),
+        )
+        e = np.broadcast_to(
+            np.asarray(e, dtype=float).reshape(-1, self.q) if self.q else np.zeros((1, 0)),
+            (N, self.q),
+        )
         rhs = np.hstack([-f, e, h])  # (N, r)
         ns = len(self.subsets)
         Y = (self._maps @ rhs.T).reshape(ns, self.n, N).transpose(0, 2, 1)  # (s, N, n)

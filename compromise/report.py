@@ -47,19 +47,27 @@ def table(headers: Sequence[str], rows: Sequence[Sequence[Any]]) -> str:
     for r in cells:
         for i, c in enumerate(r):
             widths[i] = max(widths[i], len(c))
-    lines = ["  ".join(h.ljust(w) if i == 0 else h.rjust(w)
-                       for i, (h, w) in enumerate(zip(headers, widths, strict=True)))]
+    lines = [
+        "  ".join(
+            h.ljust(w) if i == 0 else h.rjust(w)
+            for i, (h, w) in enumerate(zip(headers, widths, strict=True))
+        )
+    ]
     lines.append("  ".join("-" * w for w in widths))
     for r in cells:
-        lines.append("  ".join(c.ljust(w) if i == 0 else c.rjust(w)
-                               for i, (c, w) in enumerate(zip(r, widths, strict=True))))
+        lines.append(
+            "  ".join(
+                c.ljust(w) if i == 0 else c.rjust(w)
+                for i, (c, w) in enumerate(zip(r, widths, strict=True))
+            )
+        )
     return "\n".join(lines)
 
 
 def _pct(mismatch: float) -> str:
     if mismatch is None or not math.isfinite(mismatch):
         return "-"
-    return f"{(math.exp(mismatch) - 1) * 100:+.1f} %"
+    return _margin(math.exp(mismatch) - 1)
 
 
 def design_lines(d: dict[str, Any]) -> list[str]:
@@ -77,24 +85,42 @@ def design_lines(d: dict[str, Any]) -> list[str]:
 
 def groups_table(groups: dict[str, Any]) -> str:
     """Groups: prototype, model, factor, mismatch in %, weight."""
-    rows = [[n, g["prototype"], g["model"], g["factor"], _pct(g["mismatch"]), g["weight"]]
-            for n, g in groups.items()]
+    rows = [
+        [n, g["prototype"], g["model"], g["factor"], _pct(g["mismatch"]), g["weight"]]
+        for n, g in groups.items()
+    ]
     return table(["group", "prototype", "model", "factor [-]", "mismatch", "weight"], rows)
 
 
 def quantities_table(quantities: dict[str, Any]) -> str:
     """Quantities: prototype, model, ratio, unit."""
-    rows = [[n, q["prototype"], q["model"], format_ratio(q["ratio"]), q["unit"]]
-            for n, q in quantities.items()]
+    rows = [
+        [n, q["prototype"], q["model"], format_ratio(q["ratio"]), q["unit"]]
+        for n, q in quantities.items()
+    ]
     return table(["quantity", "prototype", "model", "ratio", "unit [SI]"], rows)
+
+
+def _margin(margin: float) -> str:
+    """A fractional margin in %, without a negative zero for a binding limit."""
+    pct = margin * 100
+    return f"{0.0 if abs(pct) < 0.05 else pct:+.1f} %"
 
 
 def limits_table(limits: dict[str, Any]) -> str:
     """Limits: kind, bound, model, margin, binding, condition."""
-    rows = [[n, l["kind"], l["bound"], l["model"], f"{l['margin'] * 100:+.1f} %",
-             "BINDS" if l["binding"] else ("VIOLATED" if l["margin"] < 0 else ""),
-             l.get("condition", "")]
-            for n, l in limits.items()]
+    rows = [
+        [
+            n,
+            lim["kind"],
+            lim["bound"],
+            lim["model"],
+            _margin(lim["margin"]),
+            "BINDS" if lim["binding"] else ("VIOLATED" if lim["margin"] < 0 else ""),
+            lim.get("condition", ""),
+        ]
+        for n, lim in limits.items()
+    ]
     return table(["limit", "kind", "bound", "model", "margin", "", "condition"], rows)
 
 
@@ -126,17 +152,40 @@ def format_solution(sol: dict[str, Any]) -> str:
     conds = sol.get("conditions")
     if conds:
         for name, c in conds.items():
-            out += ["", f"Groups in condition '{name}' (weight {fmt(c['weight'])}):",
-                    groups_table(c["groups"])]
+            out += [
+                "",
+                f"Groups in condition '{name}' (weight {fmt(c['weight'])}):",
+                groups_table(c["groups"]),
+            ]
     else:
         out += ["", "Groups:", groups_table(sol["groups"])]
     out += ["", "Limits (worst condition):", limits_table(sol["limits"])]
     if sol.get("binding"):
         out += ["", "What each binding limit costs (relaxed by 10 %):"]
-        rows = [[k, b["relaxed_bound"], b["multiplier"], b["estimate"], b["drop"],
-                 b.get("condition") or ""] for k, b in sol["binding"].items()]
-        out.append(table(["binding", "relaxed bound", "multiplier", "estimate", "re-solved drop",
-                          "condition"], rows))
+        rows = [
+            [
+                k,
+                b["relaxed_bound"],
+                b["multiplier"],
+                b["estimate"],
+                b["drop"],
+                b.get("condition") or "",
+            ]
+            for k, b in sol["binding"].items()
+        ]
+        out.append(
+            table(
+                [
+                    "binding",
+                    "relaxed bound",
+                    "multiplier",
+                    "estimate",
+                    "re-solved drop",
+                    "condition",
+                ],
+                rows,
+            )
+        )
     if conds:
         for name, c in conds.items():
             out += ["", f"Quantities in condition '{name}':", quantities_table(c["quantities"])]
@@ -152,12 +201,20 @@ def format_solution(sol: dict[str, Any]) -> str:
             if d is None:
                 rows.append([a["kind"], a["label"], "-", "-", "-", None, a["separator"]])
                 continue
-            rows.append([a["kind"], a["label"], d["fluid"], f"{d['temperature']:.1f}",
-                         f"{format_ratio(d['horizontal_ratio'])} / "
-                         f"{format_ratio(d['vertical_ratio'])}",
-                         a["objective"], a["separator"]])
-        out.append(table(["by", "choice", "fluid", "T [degC]", "X / Y", "mismatch",
-                          "separated by"], rows))
+            rows.append(
+                [
+                    a["kind"],
+                    a["label"],
+                    d["fluid"],
+                    f"{d['temperature']:.1f}",
+                    f"{format_ratio(d['horizontal_ratio'])} / {format_ratio(d['vertical_ratio'])}",
+                    a["objective"],
+                    a["separator"],
+                ]
+            )
+        out.append(
+            table(["by", "choice", "fluid", "T [degC]", "X / Y", "mismatch", "separated by"], rows)
+        )
     out += ["", CAUTION]
     return "\n".join(out)
 
@@ -171,17 +228,33 @@ def effects_lines(eff: dict[str, Any]) -> list[str]:
     else:
         out.append("  No regime change between prototype and model; no threshold fails.")
     if eff["regimes"]:
-        rows = [[r["group"], r["condition"], r["prototype"], r["model"],
-                 "CHANGED" if r["changed"] else ""] for r in eff["regimes"]]
+        rows = [
+            [
+                r["group"],
+                r["condition"],
+                r["prototype"],
+                r["model"],
+                "CHANGED" if r["changed"] else "",
+            ]
+            for r in eff["regimes"]
+        ]
         out += ["", table(["regime of", "condition", "prototype", "model", ""], rows)]
     if eff["thresholds"]:
-        rows = [[f"{t['phenomenon']}.{t['name']}", t["condition"], t["model"],
-                 f"{'>=' if t['kind'] == 'min' else '<='} {fmt(t['passing'])}",
-                 t["verdict"].upper(), t["status"]] for t in eff["thresholds"]]
-        out += ["", table(["threshold", "condition", "model", "needs", "verdict", "source"],
-                          rows)]
-        sources = sorted({f"{t['phenomenon']}.{t['name']}: {t['source']}"
-                          for t in eff["thresholds"]})
+        rows = [
+            [
+                f"{t['phenomenon']}.{t['name']}",
+                t["condition"],
+                t["model"],
+                f"{'>=' if t['kind'] == 'min' else '<='} {fmt(t['passing'])}",
+                t["verdict"].upper(),
+                t["status"],
+            ]
+            for t in eff["thresholds"]
+        ]
+        out += ["", table(["threshold", "condition", "model", "needs", "verdict", "source"], rows)]
+        sources = sorted(
+            {f"{t['phenomenon']}.{t['name']}: {t['source']}" for t in eff["thresholds"]}
+        )
         out += ["  Sources:"] + [f"    {s}" for s in sources]
     if eff["consequences"]:
         out += ["", "  Consequences in prototype terms:"]
@@ -192,23 +265,45 @@ def effects_lines(eff: dict[str, Any]) -> list[str]:
 def format_check(summary: dict[str, Any], path: str) -> str:
     """The summary printed by ``compromise check``."""
     p = summary["prototype"]
-    out = [f"{path}: OK", summary["title"], "",
-           f"Prototype: {p['fluid']} at {p['temperature']:.2f} degC, {fmt(p['pressure'])} Pa", ""]
-    rows = [[n, q["value"], q["unit"], q["kind"], q["scales_as"]]
-            for n, q in summary["quantities"].items()]
-    out += ["Quantities (ratio: X horizontal, Y vertical, V velocity):",
-            table(["quantity", "value", "unit [SI]", "kind", "ratio"], rows), ""]
+    out = [
+        f"{path}: OK",
+        summary["title"],
+        "",
+        f"Prototype: {p['fluid']} at {p['temperature']:.2f} degC, {fmt(p['pressure'])} Pa",
+        "",
+    ]
+    rows = [
+        [n, q["value"], q["unit"], q["kind"], q["scales_as"]]
+        for n, q in summary["quantities"].items()
+    ]
+    out += [
+        "Quantities (ratio: X horizontal, Y vertical, V velocity):",
+        table(["quantity", "value", "unit [SI]", "kind", "ratio"], rows),
+        "",
+    ]
     if len(summary["conditions"]) > 1:
-        rows = [[n, c["weight"], ", ".join(f"{k} = {fmt(v)}" for k, v in c["values"].items())]
-                for n, c in summary["conditions"].items()]
+        rows = [
+            [n, c["weight"], ", ".join(f"{k} = {fmt(v)}" for k, v in c["values"].items())]
+            for n, c in summary["conditions"].items()
+        ]
         out += ["Conditions:", table(["condition", "weight", "overrides [SI]"], rows), ""]
-    rows = [[n, g["expression"], g["weight"], g["exact"], g["min"], g["max"]]
-            for n, g in summary["groups"].items()]
+    rows = [
+        [n, g["expression"], g["weight"], g["exact"], g["min"], g["max"]]
+        for n, g in summary["groups"].items()
+    ]
     gv = summary.get("group_values", {})
     if gv:
         rows = [[*r, gv.get(r[0])] for r in rows]
-    out += ["Groups:", table(["group", "expression", "weight", "exact", "min", "max",
-                              "prototype"][: len(rows[0]) if rows else 6], rows), ""]
+    out += [
+        "Groups:",
+        table(
+            ["group", "expression", "weight", "exact", "min", "max", "prototype"][
+                : len(rows[0]) if rows else 6
+            ],
+            rows,
+        ),
+        "",
+    ]
     m = summary["model"]
     out += [
         "Model choices:",
@@ -243,10 +338,19 @@ def format_fluids(data: dict[str, Any], temperature: float) -> str:
         if p is None:
             rows.append([name, "out of range", None, None, None, None])
             continue
-        rows.append([name, p["density"], p["dynamic_viscosity"], p["kinematic_viscosity"],
-                     p["surface_tension"], p["speed_of_sound"]])
+        rows.append(
+            [
+                name,
+                p["density"],
+                p["dynamic_viscosity"],
+                p["kinematic_viscosity"],
+                p["surface_tension"],
+                p["speed_of_sound"],
+            ]
+        )
     return f"Fluids at {temperature:.2f} degC:\n" + table(
-        ["fluid", "density [kg/m^3]", "mu [Pa s]", "nu [m^2/s]", "sigma [N/m]", "c [m/s]"], rows)
+        ["fluid", "density [kg/m^3]", "mu [Pa s]", "nu [m^2/s]", "sigma [N/m]", "c [m/s]"], rows
+    )
 
 
 def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
@@ -267,38 +371,81 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
     if sol["status"] == "optimal":
         d = sol["design"]
         tables["design"] = (list(d), [list(d.values())])
-        conds = sol.get("conditions") or {"design": {"groups": sol["groups"],
-                                                     "quantities": sol["quantities"]}}
+        conds = sol.get("conditions") or {
+            "design": {"groups": sol["groups"], "quantities": sol["quantities"]}
+        }
         rows = []
         for cname, c in conds.items():
             for n, g in c["groups"].items():
-                rows.append([cname, n, g["prototype"], g["model"], g["mismatch"], g["factor"],
-                             g["weight"]])
-        tables["groups"] = (["condition", "group", "prototype", "model", "mismatch", "factor",
-                             "weight"], rows)
-        rows = [[n, l["kind"], l["bound"], l["model"], l["margin"], l["binding"],
-                 l.get("condition")] for n, l in sol["limits"].items()]
-        tables["limits"] = (["limit", "kind", "bound", "model", "margin", "binding",
-                             "condition"], rows)
+                rows.append(
+                    [cname, n, g["prototype"], g["model"], g["mismatch"], g["factor"], g["weight"]]
+                )
+        tables["groups"] = (
+            ["condition", "group", "prototype", "model", "mismatch", "factor", "weight"],
+            rows,
+        )
+        rows = [
+            [
+                n,
+                lim["kind"],
+                lim["bound"],
+                lim["model"],
+                lim["margin"],
+                lim["binding"],
+                lim.get("condition"),
+            ]
+            for n, lim in sol["limits"].items()
+        ]
+        tables["limits"] = (
+            ["limit", "kind", "bound", "model", "margin", "binding", "condition"],
+            rows,
+        )
         rows = []
         for cname, c in conds.items():
             for n, q in c["quantities"].items():
                 rows.append([cname, n, q["prototype"], q["model"], q["ratio"], q["unit"]])
-        tables["quantities"] = (["condition", "quantity", "prototype", "model", "ratio", "unit"],
-                                rows)
+        tables["quantities"] = (
+            ["condition", "quantity", "prototype", "model", "ratio", "unit"],
+            rows,
+        )
     else:
-        rows = [[k, sol["relaxation"].get(k), sol.get("conditions", {}).get(k)]
-                for k in sol.get("conflict", [])]
+        rows = [
+            [k, sol["relaxation"].get(k), sol.get("conditions", {}).get(k)]
+            for k in sol.get("conflict", [])
+        ]
         tables["conflict"] = (["key", "relaxed_bound", "condition"], rows)
     rows = []
     for a in sol.get("alternatives", []):
         d = a["design"] or {}
-        rows.append([a["kind"], a["label"], a["feasible"], a["objective"], d.get("fluid"),
-                     d.get("temperature"), d.get("horizontal_ratio"), d.get("vertical_ratio"),
-                     d.get("velocity_ratio"), a["separator"]])
-    tables["alternatives"] = (["kind", "label", "feasible", "objective", "fluid", "temperature",
-                               "horizontal_ratio", "vertical_ratio", "velocity_ratio",
-                               "separator"], rows)
+        rows.append(
+            [
+                a["kind"],
+                a["label"],
+                a["feasible"],
+                a["objective"],
+                d.get("fluid"),
+                d.get("temperature"),
+                d.get("horizontal_ratio"),
+                d.get("vertical_ratio"),
+                d.get("velocity_ratio"),
+                a["separator"],
+            ]
+        )
+    tables["alternatives"] = (
+        [
+            "kind",
+            "label",
+            "feasible",
+            "objective",
+            "fluid",
+            "temperature",
+            "horizontal_ratio",
+            "vertical_ratio",
+            "velocity_ratio",
+            "separator",
+        ],
+        rows,
+    )
     written = []
     for name, (head, rows) in tables.items():
         buf = io.StringIO()
@@ -316,10 +463,12 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
 
 def format_tolerance(t: dict[str, Any]) -> str:
     """The answer of ``compromise tolerance``."""
-    return "\n".join([
-        f"{t['quantity']} within {t['within']:.1%} (condition '{t['condition']}'):",
-        f"  prototype Reynolds number      {fmt(t['reynolds_prototype'])}",
-        f"  smallest model Reynolds number {fmt(t['reynolds_min'])}"
-        f"  (a reduction of {t['reynolds_prototype'] / t['reynolds_min']:.4g} times at most)",
-        f"  basis: {t['basis']}",
-    ])
+    return "\n".join(
+        [
+            f"{t['quantity']} within {t['within']:.1%} (condition '{t['condition']}'):",
+            f"  prototype Reynolds number      {fmt(t['reynolds_prototype'])}",
+            f"  smallest model Reynolds number {fmt(t['reynolds_min'])}"
+            f"  (a reduction of {t['reynolds_prototype'] / t['reynolds_min']:.4g} times at most)",
+            f"  basis: {t['basis']}",
+        ]
+    )

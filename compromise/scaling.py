@@ -19,7 +19,17 @@ from __future__ import annotations
 import numpy as np
 
 #: Log-ratio basis: decision variables first, then fluid properties.
-BASIS: tuple[str, ...] = ("horizontal", "vertical", "velocity", "rho", "mu", "nu", "sigma", "c", "g")
+BASIS: tuple[str, ...] = (
+    "horizontal",
+    "vertical",
+    "velocity",
+    "rho",
+    "mu",
+    "nu",
+    "sigma",
+    "c",
+    "g",
+)
 #: Index of each basis name.
 INDEX: dict[str, int] = {name: i for i, name in enumerate(BASIS)}
 #: Number of decision variables at the start of the basis (x, z, v).
@@ -86,7 +96,7 @@ def default_scaling(dim: tuple[int, ...], axis: str = "horizontal") -> np.ndarra
     >>> default_scaling((0, 1, 0, 0), axis="vertical").tolist()[:3]
     [0.0, 1.0, 0.0]
     """
-    m, length, t, theta = (int(round(d)) for d in dim)
+    m, length, t, theta = (round(d) for d in dim)
     if theta:
         return None
     key = (m, length, t)

@@ -66,9 +66,13 @@ class BindingCost:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"condition": self.condition, "multiplier": self.multiplier,
-                "estimate": self.estimate, "drop": self.drop,
-                "relaxed_bound": self.relaxed_bound}
+        return {
+            "condition": self.condition,
+            "multiplier": self.multiplier,
+            "estimate": self.estimate,
+            "drop": self.drop,
+            "relaxed_bound": self.relaxed_bound,
+        }
 
 
 @dataclass(frozen=True)
@@ -88,10 +92,14 @@ class Alternative:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"kind": self.kind, "label": self.label,
-                "design": self.design.to_dict() if self.design else None,
-                "objective": self.objective if math.isfinite(self.objective) else None,
-                "feasible": self.feasible, "separator": self.separator}
+        return {
+            "kind": self.kind,
+            "label": self.label,
+            "design": self.design.to_dict() if self.design else None,
+            "objective": self.objective if math.isfinite(self.objective) else None,
+            "feasible": self.feasible,
+            "separator": self.separator,
+        }
 
 
 @dataclass(frozen=True)
@@ -116,8 +124,12 @@ class Conflict:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data."""
-        return {"conflict": list(self.keys), "relaxation": dict(self.relaxation),
-                "conditions": dict(self.conditions), "units": dict(self.units)}
+        return {
+            "conflict": list(self.keys),
+            "relaxation": dict(self.relaxation),
+            "conditions": dict(self.conditions),
+            "units": dict(self.units),
+        }
 
 
 @dataclass(frozen=True)
@@ -190,6 +202,7 @@ class Solution:
                 rows.append({"condition": c.name, "group": name, **g.to_dict()})
         return pd.DataFrame(rows)
 
+
 TIE = 1e-12  # [-] objectives closer than this (plus 1e-9 relative) count as equal
 
 
@@ -249,24 +262,42 @@ def _solve(case: Case, n_temperatures: int, alternatives: bool) -> Solution:
     if problem.nonlinear_groups:
         from compromise.nonlinear import solve_nonlinear
 
-        return solve_nonlinear(case, problem, n_temperatures=n_temperatures,
-                               alternatives=alternatives)
+        return solve_nonlinear(
+            case, problem, n_temperatures=n_temperatures, alternatives=alternatives
+        )
     engine = Engine(problem)
     states = {f: FluidStates(case, f, problem.used_properties) for f in case.model.fluids}
-    per_fluid = dict(zip(states, best_states(engine, list(states.values()),
-                                             n_temperatures=n_temperatures), strict=True))
+    per_fluid = dict(
+        zip(
+            states,
+            best_states(engine, list(states.values()), n_temperatures=n_temperatures),
+            strict=True,
+        )
+    )
     feasible = [s for s in per_fluid.values() if s is not None]
     if not feasible:
         from compromise.diagnose import diagnose
 
         conflict = diagnose(problem, states)
-        alts = _alternatives(case, problem, states, per_fluid, None, n_temperatures) if alternatives else ()
+        alts = (
+            _alternatives(case, problem, states, per_fluid, None, n_temperatures)
+            if alternatives
+            else ()
+        )
         return Solution(case, "infeasible", math.inf, None, None, {}, alts, conflict)
     best = _pick(feasible, case)
     design = _design(best)
     evaluation = evaluate_design(case, design)
-    binding = _binding_costs(problem, engine, states[best.fluid], best, n_temperatures) if alternatives else {}
-    alts = _alternatives(case, problem, states, per_fluid, best, n_temperatures) if alternatives else ()
+    binding = (
+        _binding_costs(problem, engine, states[best.fluid], best, n_temperatures)
+        if alternatives
+        else {}
+    )
+    alts = (
+        _alternatives(case, problem, states, per_fluid, best, n_temperatures)
+        if alternatives
+        else ()
+    )
     return Solution(case, "optimal", best.objective, design, evaluation, binding, alts)
 
 
@@ -281,7 +312,7 @@ def _binding_costs(
     from scipy.optimize import nnls
 
     p = fs.exact_p(best.temperature, best.pressure)
-    f, h, e, _ = engine.linear_terms(p[None])
+    f, h, _, _ = engine.linear_terms(p[None])
     y = best.y
     slack = h[0] - problem.G @ y
     active = np.flatnonzero(np.abs(slack) <= 1e-8 * (1 + np.abs(h[0])))
@@ -296,19 +327,29 @@ def _binding_costs(
     sol, _ = nnls(M, -grad)
     lam = sol[: active.size]
     shift = math.log(1.0 + RELAXATION)
-    all_states = [fs if g == fs.name else FluidStates(problem.case, g, problem.used_properties)
-                  for g in problem.case.model.fluids]
+    all_states = [
+        fs if g == fs.name else FluidStates(problem.case, g, problem.used_properties)
+        for g in problem.case.model.fluids
+    ]
     for i, li in zip(active, lam, strict=True):
         row = problem.rows[i]
         hs = np.zeros(problem.G.shape[0])
         hs[i] = shift
-        objs = [s.objective for s in best_states(engine, all_states,
-                                                 n_temperatures=n_temperatures, h_shift=hs)
-                if s is not None]
+        objs = [
+            s.objective
+            for s in best_states(engine, all_states, n_temperatures=n_temperatures, h_shift=hs)
+            if s is not None
+        ]
         new = min(objs) if objs else best.objective
         key = row.key
-        out[key] = BindingCost(key, row.condition, float(li), float(li * shift),
-                               max(0.0, best.objective - new), relaxed_bound(row, shift))
+        out[key] = BindingCost(
+            key,
+            row.condition,
+            float(li),
+            float(li * shift),
+            max(0.0, best.objective - new),
+            relaxed_bound(row, shift),
+        )
     return out
 
 
@@ -322,7 +363,7 @@ def _separator(case: Case, best: Evaluation | None, alt: Evaluation) -> str:
         for g, gv in ca.groups.items():
             if gv.exact:
                 continue
-            d = cb.weight * gv.weight * (gv.mismatch**2 - cb.groups[g].mismatch**2)
+            d = cb.weight * gv.weight * (gv.mismatch**2 - cb.groups[g].mismatch ** 2)
             diffs[g] = diffs.get(g, 0.0) + d
     if not diffs:
         return ""
@@ -367,14 +408,24 @@ def _alternatives(
             alts.append(Alternative("fluid", f, None, math.inf, "infeasible"))
             continue
         d = _design(s)
-        alts.append(Alternative("fluid", f, d, s.objective,
-                                _separator(case, best_eval, evaluate_design(case, d))))
+        alts.append(
+            Alternative(
+                "fluid", f, d, s.objective, _separator(case, best_eval, evaluate_design(case, d))
+            )
+        )
     if case.model.preferred_ratios:
         engine = Engine(problem, extra_E=np.array([[1.0, 0.0, 0.0]]))
         for r in case.model.preferred_ratios:
-            cands = [c for c in best_states(engine, list(states.values()),
-                                            n_temperatures=n_temperatures,
-                                            extra_e=np.array([math.log(r)])) if c is not None]
+            cands = [
+                c
+                for c in best_states(
+                    engine,
+                    list(states.values()),
+                    n_temperatures=n_temperatures,
+                    extra_e=np.array([math.log(r)]),
+                )
+                if c is not None
+            ]
             label = format_ratio(r)
             if not cands:
                 lo, hi = case.model.horizontal_ratio
@@ -386,7 +437,14 @@ def _alternatives(
                 continue
             c = _pick(cands, case)
             d = _design(c)
-            alts.append(Alternative("ratio", label, d, c.objective,
-                                    _separator(case, best_eval, evaluate_design(case, d))))
+            alts.append(
+                Alternative(
+                    "ratio",
+                    label,
+                    d,
+                    c.objective,
+                    _separator(case, best_eval, evaluate_design(case, d)),
+                )
+            )
     alts.sort(key=lambda a: (a.objective, a.kind, a.label))
     return tuple(alts)

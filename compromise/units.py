@@ -51,7 +51,7 @@ def registry() -> Any:
 
 def dimension_name(dim: tuple[int, ...]) -> str:
     """A readable name for a dimension vector, e.g. ``(0, 1, -1, 0)`` -> ``'velocity'``."""
-    key = tuple(int(round(d)) for d in dim)
+    key = tuple(round(d) for d in dim)
     if key in DIMENSION_NAMES:
         return DIMENSION_NAMES[key]
     symbols = ("M", "L", "T", "K")
@@ -138,7 +138,9 @@ def parse_ratio(text: str | float | int) -> float:
             try:
                 value = float(s)
             except ValueError:
-                raise ValueError(f"expected a ratio like '1:50' or a number, got {text!r}") from None
+                raise ValueError(
+                    f"expected a ratio like '1:50' or a number, got {text!r}"
+                ) from None
     else:
         raise ValueError(f"expected a ratio like '1:50' or a number, got {text!r}")
     if not math.isfinite(value) or value <= 0:
@@ -166,7 +168,7 @@ def format_ratio(value: float) -> str:
 
 def _g(n: float) -> str:
     if abs(n - round(n)) < 1e-9 * max(1.0, n):
-        return str(int(round(n)))
+        return str(round(n))
     if n >= 100:
         return f"{n:.1f}".rstrip("0").rstrip(".")
     return f"{n:.4g}"
@@ -189,7 +191,7 @@ def si_unit(dim: tuple[int, ...]) -> str:
         (0, 0, 0, 1): "K",
         (0, 0, -1, 0): "Hz",
     }
-    key = tuple(int(round(d)) for d in dim)
+    key = tuple(round(d) for d in dim)
     if key in special:
         return special[key]
     names = ("kg", "m", "s", "K")

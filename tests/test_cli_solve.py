@@ -23,8 +23,14 @@ def river_json():
 def test_json_output_contract(river_json):
     d = json.loads(river_json)
     assert d["status"] == "optimal"
-    assert set(d["design"]) >= {"fluid", "temperature", "horizontal_ratio", "vertical_ratio",
-                                "velocity_ratio", "distortion"}
+    assert set(d["design"]) >= {
+        "fluid",
+        "temperature",
+        "horizontal_ratio",
+        "vertical_ratio",
+        "velocity_ratio",
+        "distortion",
+    }
     for g in d["groups"].values():
         assert set(g) >= {"prototype", "model", "mismatch", "weight"}
     for lim in d["limits"].values():
@@ -49,9 +55,15 @@ def test_same_input_same_bytes(river_json):
 def test_text_output_has_reasons_and_caution():
     r = RUNNER.invoke(app, ["solve", "cases/spillway.toml"])
     assert r.exit_code == 0
-    for line in ("Best design", "Groups in condition 'low'", "Limits (worst condition)",
-                 "What each binding limit costs", "Alternatives", "Scale effects",
-                 "licensed engineer"):
+    for line in (
+        "Best design",
+        "Groups in condition 'low'",
+        "Limits (worst condition)",
+        "What each binding limit costs",
+        "Alternatives",
+        "Scale effects",
+        "licensed engineer",
+    ):
         assert line in r.output
     assert "Traceback" not in r.output
 
@@ -61,8 +73,7 @@ def test_csv_tables(tmp_path):
     r = RUNNER.invoke(app, ["solve", "cases/river_bend.toml", "--csv", str(out)])
     assert r.exit_code == 0, r.output
     names = sorted(p.name for p in out.iterdir())
-    assert names == ["alternatives.csv", "design.csv", "groups.csv", "limits.csv",
-                     "quantities.csv"]
+    assert names == ["alternatives.csv", "design.csv", "groups.csv", "limits.csv", "quantities.csv"]
     with (out / "groups.csv").open() as fh:
         rows = list(csv.DictReader(fh))
     assert {r["condition"] for r in rows} == {"low", "mean", "flood"}
@@ -70,16 +81,18 @@ def test_csv_tables(tmp_path):
 
 
 def test_infeasible_exit_status_and_csv(tmp_path):
-    r = RUNNER.invoke(app, ["solve", "tests/data/solver_pump_conflict.toml", "--csv",
-                            str(tmp_path)])
+    r = RUNNER.invoke(
+        app, ["solve", "tests/data/solver_pump_conflict.toml", "--csv", str(tmp_path)]
+    )
     assert r.exit_code == 1
     assert (tmp_path / "conflict.csv").exists()
     assert "cannot hold together" in r.output
 
 
 def test_scales_command_json():
-    r = RUNNER.invoke(app, ["scales", "cases/river_bend.toml", "--ratio", "1:100",
-                            "--vertical", "1:25", "--json"])
+    r = RUNNER.invoke(
+        app, ["scales", "cases/river_bend.toml", "--ratio", "1:100", "--vertical", "1:25", "--json"]
+    )
     assert r.exit_code == 0, r.output
     d = json.loads(r.output)
     assert abs(d["ratios"]["velocity"] - 0.2) < 1e-12  # Y^1/2 at 1:25
@@ -98,8 +111,28 @@ def test_fluids_command_json():
 
 
 def test_groups_derive_pipe_flow():
-    r = RUNNER.invoke(app, ["groups", "--derive", "--var", "dp=Pa", "--var", "rho=kg/m^3",
-                            "--var", "mu=Pa*s", "--var", "V=m/s", "--var", "D=m",
-                            "--var", "eps=m", "--var", "L=m", "--repeating", "rho,V,D"])
+    r = RUNNER.invoke(
+        app,
+        [
+            "groups",
+            "--derive",
+            "--var",
+            "dp=Pa",
+            "--var",
+            "rho=kg/m^3",
+            "--var",
+            "mu=Pa*s",
+            "--var",
+            "V=m/s",
+            "--var",
+            "D=m",
+            "--var",
+            "eps=m",
+            "--var",
+            "L=m",
+            "--repeating",
+            "rho,V,D",
+        ],
+    )
     assert r.exit_code == 0, r.output
     assert r.output.count("Pi_") == 4

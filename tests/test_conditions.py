@@ -82,7 +82,7 @@ def test_single_condition_design_breaks_low_flow_depth(full, mean_only):
 
 
 def test_multi_condition_design_holds_in_every_condition(full):
-    case, sol = full
+    _, sol = full
     assert sol.status == "optimal"
     for cond in sol.evaluation.conditions:
         for lim in cond.limits.values():
@@ -91,7 +91,7 @@ def test_multi_condition_design_holds_in_every_condition(full):
 
 
 def test_binding_limits_name_their_condition(full):
-    case, sol = full
+    _, sol = full
     d = sol.to_dict()
     assert d["limits"]["depth.min"]["binding"]
     assert d["limits"]["depth.min"]["condition"] == "low"
@@ -106,7 +106,7 @@ def test_binding_limits_name_their_condition(full):
 
 
 def test_objective_sums_condition_weights(full):
-    case, sol = full
+    _, sol = full
     # power-product mismatches are the same in every condition; three conditions of weight 1
     one = sol.evaluation.conditions[0].objective
     assert_allclose(sol.objective, 3 * one, rtol=1e-9)

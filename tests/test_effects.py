@@ -11,7 +11,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from compromise.case import case_from_dict, load_case
-from compromise.effects import assess, reynolds_tolerance
+from compromise.effects import reynolds_tolerance
 from compromise.friction import (
     friction_factor,
     friction_factor_colebrook,
@@ -26,13 +26,16 @@ from compromise.thresholds import PHENOMENA, THRESHOLDS, thresholds_for
 # --- friction laws ---------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize(("re", "rr"), [(1e4, 0.0), (1e5, 1e-4), (1e5, 0.0), (1e6, 1e-4),
-                                        (1e6, 1e-3), (1e8, 1e-2), (3e3, 5e-2)])
+@pytest.mark.parametrize(
+    ("re", "rr"),
+    [(1e4, 0.0), (1e5, 1e-4), (1e5, 0.0), (1e6, 1e-4), (1e6, 1e-3), (1e8, 1e-2), (3e3, 5e-2)],
+)
 def test_colebrook_against_fluids_library(re, rr):
     fluids = pytest.importorskip("fluids")
     # fluids.friction.Colebrook (Bell, C., fluids library) solves the same equation exactly
-    assert_allclose(friction_factor_colebrook(re, rr), fluids.friction.Colebrook(re, rr),
-                    rtol=1e-12)
+    assert_allclose(
+        friction_factor_colebrook(re, rr), fluids.friction.Colebrook(re, rr), rtol=1e-12
+    )
 
 
 def test_colebrook_1939_check_value():
@@ -52,16 +55,19 @@ def test_fully_rough_white_fluid_mechanics_eq_6_63(rr, f):
 def test_haaland_1983_against_fluids_library():
     fluids = pytest.importorskip("fluids")
     for re, rr in [(1e5, 1e-4), (1e6, 1e-3), (1e4, 0.0)]:
-        assert_allclose(friction_factor_haaland(re, rr), fluids.friction.Haaland(re, rr),
-                        rtol=1e-12)
+        assert_allclose(
+            friction_factor_haaland(re, rr), fluids.friction.Haaland(re, rr), rtol=1e-12
+        )
 
 
 def test_laminar_hagen_poiseuille():
     assert friction_factor(1000.0, 1e-3) == pytest.approx(0.064, rel=1e-15)
 
 
-@pytest.mark.parametrize(("re", "cf"), [(1e6, 0.004687), (3e6, 0.003742), (5e6, 0.003397),
-                                        (1e7, 0.003000), (1e9, 0.001531)])
+@pytest.mark.parametrize(
+    ("re", "cf"),
+    [(1e6, 0.004687), (3e6, 0.003742), (5e6, 0.003397), (1e7, 0.003000), (1e9, 0.001531)],
+)
 def test_ittc_1957_line(re, cf):
     # ITTC (1957), C_F = 0.075 / (log10 Re - 2)^2, values printed to 4 significant digits
     assert_allclose(ittc_1957(re), cf, atol=5e-7)
@@ -126,8 +132,11 @@ def spillway():
 
 def test_spillway_thresholds_judged_per_condition(spillway):
     eff = spillway.effects
-    jump = {c.condition: c for c in eff.checks if c.threshold.name == "reynolds"
-            and c.threshold.phenomenon == "hydraulic_jump"}
+    jump = {
+        c.condition: c
+        for c in eff.checks
+        if c.threshold.name == "reynolds" and c.threshold.phenomenon == "hydraulic_jump"
+    }
     assert set(jump) == {"low", "mean", "flood"}
     # verdicts follow the band 4e4 (fail below) .. 1e5 (pass at or above)
     for c in jump.values():
@@ -155,14 +164,23 @@ def test_enforce_thresholds_can_make_a_case_infeasible():
 
 
 def test_regime_change_is_the_first_risk():
-    case = case_from_dict({
-        "prototype": {"fluid": "water", "temperature": "20 degC",
-                      "quantities": {"depth": {"value": "0.5 m", "axis": "vertical"},
-                                     "velocity": "0.4 m/s", "reach": "100 m"}},
-        "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
-        "model": {"horizontal_ratio": {"min": "1:500", "max": "1:200"}, "distortion": 1},
-        "phenomena": ["open_channel"],
-    }, path="laminar.toml")
+    case = case_from_dict(
+        {
+            "prototype": {
+                "fluid": "water",
+                "temperature": "20 degC",
+                "quantities": {
+                    "depth": {"value": "0.5 m", "axis": "vertical"},
+                    "velocity": "0.4 m/s",
+                    "reach": "100 m",
+                },
+            },
+            "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
+            "model": {"horizontal_ratio": {"min": "1:500", "max": "1:200"}, "distortion": 1},
+            "phenomena": ["open_channel"],
+        },
+        path="laminar.toml",
+    )
     sol = solve(case)
     eff = sol.effects
     reg = next(r for r in eff.regimes if r.group == "reynolds")
@@ -172,14 +190,23 @@ def test_regime_change_is_the_first_risk():
 
 def test_distorted_manning_needs_rougher_model_chow1959():
     # X = 1:500, Y = 1:100, prototype n = 0.021: wide-channel model n = 0.0218 (printed)
-    case = case_from_dict({
-        "prototype": {"fluid": "water", "temperature": "20 degC",
-                      "quantities": {"depth": {"value": "5 m", "axis": "vertical"},
-                                     "width": "120 m", "velocity": "2.5 m/s",
-                                     "manning_n": 0.021}},
-        "groups": {"froude": {"exact": True}},
-        "model": {"horizontal_ratio": "1:500", "distortion": 5},
-    }, path="distorted.toml")
+    case = case_from_dict(
+        {
+            "prototype": {
+                "fluid": "water",
+                "temperature": "20 degC",
+                "quantities": {
+                    "depth": {"value": "5 m", "axis": "vertical"},
+                    "width": "120 m",
+                    "velocity": "2.5 m/s",
+                    "manning_n": 0.021,
+                },
+            },
+            "groups": {"froude": {"exact": True}},
+            "model": {"horizontal_ratio": "1:500", "distortion": 5},
+        },
+        path="distorted.toml",
+    )
     sol = solve(case)
     man = next(c for c in sol.effects.consequences if c.kind == "manning")
     assert_allclose(man.values["n_model"], 0.0218, atol=5e-5)
@@ -188,13 +215,22 @@ def test_distorted_manning_needs_rougher_model_chow1959():
 
 def test_model_smoother_than_glass_is_flagged():
     # an undistorted model of a very smooth prototype: n_m = n_p * X^(1/6) < 0.009
-    case = case_from_dict({
-        "prototype": {"fluid": "water", "temperature": "20 degC",
-                      "quantities": {"depth": {"value": "3 m", "axis": "vertical"},
-                                     "velocity": "2 m/s", "manning_n": 0.012}},
-        "groups": {"froude": {"exact": True}},
-        "model": {"horizontal_ratio": "1:100", "distortion": 1},
-    }, path="smooth.toml")
+    case = case_from_dict(
+        {
+            "prototype": {
+                "fluid": "water",
+                "temperature": "20 degC",
+                "quantities": {
+                    "depth": {"value": "3 m", "axis": "vertical"},
+                    "velocity": "2 m/s",
+                    "manning_n": 0.012,
+                },
+            },
+            "groups": {"froude": {"exact": True}},
+            "model": {"horizontal_ratio": "1:100", "distortion": 1},
+        },
+        path="smooth.toml",
+    )
     man = next(c for c in solve(case).effects.consequences if c.kind == "manning")
     assert_allclose(man.values["n_model"], 0.012 * 100 ** (-1 / 6), rtol=1e-9)
     assert man.flag == "infeasible"
@@ -241,15 +277,27 @@ def test_tolerance_command(tmp_path):
 
     from compromise.cli import app
 
-    r = CliRunner().invoke(app, ["tolerance", "cases/pipe_rig.toml", "--quantity",
-                                 "pressure_drop", "--within", "2%", "--json"])
+    r = CliRunner().invoke(
+        app,
+        [
+            "tolerance",
+            "cases/pipe_rig.toml",
+            "--quantity",
+            "pressure_drop",
+            "--within",
+            "2%",
+            "--json",
+        ],
+    )
     assert r.exit_code == 0, r.output
     d = json.loads(r.output)
     assert d["tolerance"]["reynolds_min"] < d["tolerance"]["reynolds_prototype"]
     r = CliRunner().invoke(app, ["tolerance", "cases/pipe_rig.toml", "--quantity", "speed"])
     assert r.exit_code == 2
     assert "--quantity" in r.output and "Traceback" not in r.output
-    r = CliRunner().invoke(app, ["tolerance", "cases/river_bend.toml", "--quantity", "depth",
-                                 "--within", "5%", "--apply"])
+    r = CliRunner().invoke(
+        app,
+        ["tolerance", "cases/river_bend.toml", "--quantity", "depth", "--within", "5%", "--apply"],
+    )
     assert r.exit_code == 0, r.output
     assert "With the floor reynolds >=" in r.output

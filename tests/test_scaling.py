@@ -30,8 +30,11 @@ def _river(quantities: dict, **model) -> object:
         {
             "prototype": {"fluid": "water", "temperature": "20 degC", "quantities": quantities},
             "groups": {"froude": {}, "reynolds": {}},
-            "model": {"horizontal_ratio": {"min": "1:1000", "max": "1:1"},
-                      "distortion": {"min": 1, "max": 10}, **model},
+            "model": {
+                "horizontal_ratio": {"min": "1:1000", "max": "1:1"},
+                "distortion": {"min": 1, "max": 10},
+                **model,
+            },
         },
         path="test.toml",
     )
@@ -66,8 +69,11 @@ def test_froude_ratios_chanson1999_table14(froude_25, kind, n_power):
 def test_froude_ratios_at_1_25_printed_values(froude_25):
     # the check values at N = 25: V, t = 1/5; Q = 1/3125; F = 1/15625; P = 1/78125; n = 1/1.710
     r = froude_25.ratios
-    assert_allclose([1 / r["velocity"], 1 / r["time"], 1 / r["discharge"], 1 / r["force"],
-                     1 / r["power"]], [5, 5, 3125, 15625, 78125], rtol=1e-12)
+    assert_allclose(
+        [1 / r["velocity"], 1 / r["time"], 1 / r["discharge"], 1 / r["force"], 1 / r["power"]],
+        [5, 5, 3125, 15625, 78125],
+        rtol=1e-12,
+    )
     assert_allclose(1 / r["manning_n"], 1.710, atol=5e-4)  # printed to 4 digits
     for kind in ("slope", "chezy_c", "darcy_f", "acceleration"):
         assert_allclose(r[kind], 1.0, rtol=1e-12)
@@ -77,19 +83,24 @@ def test_froude_number_is_kept(froude_25):
     g = froude_25.evaluation.conditions[0].groups["froude"]
     assert abs(g.mismatch) < 1e-12
     # Reynolds falls as L^3/2 with the same fluid
-    assert_allclose(math.exp(froude_25.evaluation.conditions[0].groups["reynolds"].mismatch),
-                    25.0**-1.5, rtol=1e-9)
+    assert_allclose(
+        math.exp(froude_25.evaluation.conditions[0].groups["reynolds"].mismatch),
+        25.0**-1.5,
+        rtol=1e-9,
+    )
 
 
 @pytest.fixture(scope="module")
 def distorted():
-    case = _river({
-        "depth": {"value": "5 m", "axis": "vertical"},
-        "width": "120 m",
-        "velocity": "2.5 m/s",
-        "discharge": "1500 m^3/s",
-        "slope": {"value": "0.00032", "scales_as": "vertical / horizontal"},
-    })
+    case = _river(
+        {
+            "depth": {"value": "5 m", "axis": "vertical"},
+            "width": "120 m",
+            "velocity": "2.5 m/s",
+            "discharge": "1500 m^3/s",
+            "slope": {"value": "0.00032", "scales_as": "vertical / horizontal"},
+        }
+    )
     return scale_table(case, 1 / 500, vertical=1 / 100)
 
 
@@ -129,9 +140,25 @@ def test_reynolds_velocity_rule_keeps_reynolds():
 def test_scale_table_json_keys(froude_25):
     d = froude_25.to_dict()
     assert set(d) >= {"ratios", "quantities", "groups", "design"}
-    for key in ("horizontal_length", "vertical_length", "velocity", "time", "discharge",
-                "force", "pressure", "power", "slope", "manning_n", "frequency",
-                "plan_area", "cross_section_area", "volume", "unit_discharge", "chezy_c",
-                "darcy_f", "acceleration"):
+    for key in (
+        "horizontal_length",
+        "vertical_length",
+        "velocity",
+        "time",
+        "discharge",
+        "force",
+        "pressure",
+        "power",
+        "slope",
+        "manning_n",
+        "frequency",
+        "plan_area",
+        "cross_section_area",
+        "volume",
+        "unit_discharge",
+        "chezy_c",
+        "darcy_f",
+        "acceleration",
+    ):
         assert key in d["ratios"]
     assert np.isfinite(list(d["ratios"].values())).all()

@@ -93,13 +93,23 @@ def test_scale_selection_pump_capacity_rule_chanson1999():
     # a 1000 m^3/s flood, a 0.2 m^3/s pump and no other limit: L_r = (0.2/1000)^(2/5)
     case = case_from_dict(
         {
-            "prototype": {"fluid": "water", "temperature": "15 degC",
-                          "quantities": {"depth": {"value": "4 m", "axis": "vertical"},
-                                         "width": "60 m", "velocity": "4.2 m/s",
-                                         "discharge": "1000 m^3/s"}},
+            "prototype": {
+                "fluid": "water",
+                "temperature": "15 degC",
+                "quantities": {
+                    "depth": {"value": "4 m", "axis": "vertical"},
+                    "width": "60 m",
+                    "velocity": "4.2 m/s",
+                    "discharge": "1000 m^3/s",
+                },
+            },
             "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
-            "model": {"horizontal_ratio": {"min": "1:500", "max": "1:1"}, "distortion": 1,
-                      "fluids": ["water"], "temperature": "15 degC"},
+            "model": {
+                "horizontal_ratio": {"min": "1:500", "max": "1:1"},
+                "distortion": 1,
+                "fluids": ["water"],
+                "temperature": "15 degC",
+            },
             "limits": {"discharge": {"max": "0.2 m^3/s"}},
         },
         path="pump.toml",

@@ -448,7 +448,14 @@ def _boundaries(
         if at_optimum is not None:
             y_opt, h_opt = at_optimum
             binding = bool(abs(problem.G[i] @ y_opt - h_opt[i]) <= 1e-6 * (1 + abs(h_opt[i])))
-        out.append(Boundary(row.key, row_label(case, row), g.reshape(shape), binding))
+        label = row_label(case, row)
+        if row.condition is not None:
+            label += f" ({row.condition})"
+        out.append(Boundary(row.key, label, g.reshape(shape), binding))
+        # the same limit in the other conditions: the contour of this field at their shift
+        for cond, shift in row.others:
+            other = f"{row_label(case, row)} ({cond})"
+            out.append(Boundary(f"{row.key}@{cond}", other, (g - shift).reshape(shape), False))
     return tuple(out)
 
 

@@ -374,33 +374,41 @@ def map_figure(dmap: DesignMap) -> Figure:
         "#bcbd22",
         "#7f7f7f",
     )
-    for n, b in enumerate(dmap.boundaries):
+    # one colour per limit; the same limit in a looser condition (key "...@condition") is a
+    # thin dotted line of the same colour, without ticks or an on-line label
+    base_keys = list(dict.fromkeys(b.key.split("@")[0] for b in dmap.boundaries))
+    for b in dmap.boundaries:
         g = b.violation
         if not (np.any(g > 0) and np.any(g <= 0)):
             continue
+        base = b.key.split("@")[0]
+        n = base_keys.index(base)
         colour = colours[n % len(colours)]
-        style = LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        looser = "@" in b.key
+        style = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
         cs = ax.contour(
             gx,
             gy,
             np.where(np.isfinite(g), g, 1e3),
             levels=[0.0],
             colors=[colour],
-            linewidths=2.2 if b.binding else 1.5,
+            linewidths=1.0 if looser else (2.2 if b.binding else 1.5),
             linestyles=[style],
+            alpha=0.7 if looser else 1.0,
             zorder=3,
         )
-        cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
         segs = [sg for sg in cs.allsegs[0] if len(sg) > 1]
-        if segs:
-            text = b.label + ("  (binds)" if b.binding else "")
-            placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
+        if not looser:
+            cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
+            if segs:
+                text = b.label + ("  (binds)" if b.binding else "")
+                placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
         handles.append(
             Line2D(
                 [],
                 [],
                 color=colour,
-                lw=2,
+                lw=1 if looser else 2,
                 ls=style,
                 label=b.label + ("  (binds at the optimum)" if b.binding else ""),
             )

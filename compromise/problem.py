@@ -59,6 +59,8 @@ class Row:
     bound: float
     condition: str | None
     key: str
+    #: for every other condition, how much looser the row is there: (condition, rhs shift >= 0)
+    others: tuple[tuple[str, float], ...] = ()
 
 
 @dataclass(frozen=True)
@@ -167,6 +169,17 @@ def build_problem(case: Case) -> Problem:
         """The condition that sets a row, or None when every condition has the same value."""
         return None if np.all(values == values[0]) else cond_names[i]
 
+    def looser(values: np.ndarray, i: int, side: str) -> tuple[tuple[str, float], ...]:
+        """Right-hand-side shift of the same row in every other condition (>= 0)."""
+        if np.all(values == values[0]):
+            return ()
+        sign = 1.0 if side == "max" else -1.0
+        return tuple(
+            (cond_names[c], sign * math.log(values[i] / values[c]))
+            for c in range(len(values))
+            if c != i
+        )
+
     def add(normal: np.ndarray, rhs: float, prop: np.ndarray, row: Row) -> None:
         G_rows.append(normal)
         h0.append(rhs)
@@ -210,7 +223,15 @@ def build_problem(case: Case) -> Problem:
                 -a,
                 -math.log(g.min / proto[i]),
                 b,
-                Row("group", name, "min", g.min, which(proto, i), f"groups.{name}.min"),
+                Row(
+                    "group",
+                    name,
+                    "min",
+                    g.min,
+                    which(proto, i),
+                    f"groups.{name}.min",
+                    looser(proto, i, "min"),
+                ),
             )
         if g.max is not None:
             i = int(np.argmax(proto))
@@ -218,7 +239,15 @@ def build_problem(case: Case) -> Problem:
                 a,
                 math.log(g.max / proto[i]),
                 -b,
-                Row("group", name, "max", g.max, which(proto, i), f"groups.{name}.max"),
+                Row(
+                    "group",
+                    name,
+                    "max",
+                    g.max,
+                    which(proto, i),
+                    f"groups.{name}.max",
+                    looser(proto, i, "max"),
+                ),
             )
 
     for lim in case.limits:
@@ -233,7 +262,15 @@ def build_problem(case: Case) -> Problem:
                 s[:nd],
                 math.log(lim.bound / vals[i]),
                 -s[nd:],
-                Row("limit", lim.quantity, "max", lim.bound, which(vals, i), key),
+                Row(
+                    "limit",
+                    lim.quantity,
+                    "max",
+                    lim.bound,
+                    which(vals, i),
+                    key,
+                    looser(vals, i, "max"),
+                ),
             )
         else:
             i = int(np.argmin(vals))
@@ -241,7 +278,15 @@ def build_problem(case: Case) -> Problem:
                 -s[:nd],
                 -math.log(lim.bound / vals[i]),
                 s[nd:],
-                Row("limit", lim.quantity, "min", lim.bound, which(vals, i), key),
+                Row(
+                    "limit",
+                    lim.quantity,
+                    "min",
+                    lim.bound,
+                    which(vals, i),
+                    key,
+                    looser(vals, i, "min"),
+                ),
             )
 
     zero = np.zeros(len(PROPERTY_NAMES))

@@ -413,6 +413,11 @@ def groups(
             raise CaseError(str(exc), key="--repeating") from None
         if json_out:
             _print_json([d.to_dict() for d in derived])
+        elif not derived:
+            typer.echo(
+                f"No dimensionless group: the {len(variables)} variables are "
+                "dimensionally independent."
+            )
         else:
             for i, d in enumerate(derived, 1):
                 typer.echo(f"Pi_{i} = {d.to_text()}")

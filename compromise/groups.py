@@ -389,14 +389,41 @@ def _rank(vectors: list[np.ndarray]) -> int:
     return int(np.linalg.matrix_rank(np.column_stack(vectors)))
 
 
+def _repeating_preference(order: list[str], dims: Mapping[str, np.ndarray]) -> list[str]:
+    """Candidates for the repeating set, in the order textbooks recommend (common practice).
+
+    A geometric variable (a length) first, then a kinematic one (length and time only), then a
+    dynamic one (with mass), a density before other dynamic variables; dimensionless variables
+    never. The first variable given is usually the dependent one (a pressure drop, a force, a
+    discharge) and is tried last. Ties keep the given order.
+    """
+
+    def rank(item: tuple[int, str]) -> tuple[int, int, int]:
+        i, key = item
+        m, length, t, theta = (float(x) for x in dims[key])
+        if m == 0 and t == 0 and theta == 0 and length != 0:
+            kind = 0  # geometric
+        elif m == 0 and theta == 0:
+            kind = 1  # kinematic
+        elif (m, length, t) == (1.0, -3.0, 0.0):
+            kind = 2  # density
+        else:
+            kind = 3  # other dynamic
+        return (1 if i == 0 else 0, kind, i)
+
+    return [k for _, k in sorted(enumerate(order), key=rank)]
+
+
 def derive_groups(
     variables: Mapping[str, Sequence[float]], repeating: Sequence[str] | None = None
 ) -> list[DerivedGroup]:
     """A complete, independent set of dimensionless groups (Buckingham's pi theorem).
 
     With n variables whose dimensional matrix has rank r, there are n - r independent groups.
-    r dimensionally independent repeating variables are taken (given, or chosen greedily in
-    the given order, skipping variables that are dimensionless or dependent on those already
+    r dimensionally independent repeating variables are taken (given, or chosen greedily: a
+    length, a kinematic variable, then a density or other dynamic variable, with the first
+    variable tried last as it is usually the dependent one; skipping variables that are
+    dimensionless or dependent on those already
     chosen); each other variable, times powers of the repeating ones, makes one group. The
     exponents are solved exactly in rational arithmetic and scaled to the smallest integers,
     with the non-repeating variable's exponent positive.
@@ -448,7 +475,7 @@ def derive_groups(
 
     if repeating is None:
         chosen: list[str] = []
-        for key in order:
+        for key in _repeating_preference(order, floats):
             if len(chosen) == rank:
                 break
             if _rank([floats[k] for k in [*chosen, key]]) > len(chosen):

@@ -350,3 +350,21 @@ def test_bad_variables_raise() -> None:
         derive_groups({"pi": (0, 1, 0, 0), "b": (0, 1, 0, 0)})
     with pytest.raises(ValueError, match="'__class__' is not allowed"):
         derive_groups({"__class__": (0, 1, 0, 0)})
+
+
+def test_automatic_repeating_variables_give_the_textbook_sets() -> None:
+    # with no repeating variables given, the choice follows the textbook rule (common
+    # practice): a length, a velocity, a density; never the dependent first variable.
+    # Pipe: White, F. M., Fluid Mechanics, sec. 5.3 (from memory); sphere drag: White, ch. 5.
+    assert [g.to_text() for g in derive_groups(PIPE)] == [
+        "dp / (rho * V**2)",
+        "mu / (rho * V * D)",
+        "eps / D",
+        "Lpipe / D",
+    ]
+    assert [g.to_text() for g in derive_groups(SPHERE)] == [
+        "F / (rho * V**2 * D**2)",
+        "mu / (rho * V * D)",
+    ]
+    # weir: repeating g and H, giving the discharge coefficient's square and b / H
+    assert [g.to_text() for g in derive_groups(WEIR)] == ["Q**2 / (g * H**5)", "b / H"]

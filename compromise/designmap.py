@@ -4,7 +4,7 @@ Over a grid of two decision variables (from horizontal ratio, vertical ratio, di
 velocity ratio and temperature), with the model fluid fixed, every other decision variable
 (and the temperature and pressure, when they are not axes) takes its optimum: each cell is the
 convex subproblem of :mod:`compromise.problem` with two extra equality rows, solved exactly
-(:class:`compromise.envelope.BatchQP`) on the temperature grid with a zoom. Cells where no
+(:class:`compromise.qp.SmallQP`) on the temperature grid with a zoom. Cells where no
 design satisfies every limit are outside the feasible window.
 
 Each limit's boundary is the zero level of its *log-violation* ``G_i y - h_i``, minimised over the
@@ -24,10 +24,11 @@ import numpy as np
 
 from compromise.case import Case
 from compromise.design import Design
-from compromise.envelope import BatchQP, StateSpace, lower_envelope
+from compromise.envelope import StateSpace, lower_envelope
 from compromise.errors import CaseError
 from compromise.grid import REGULARISATION, Engine, FluidStates, best_state
 from compromise.problem import Problem, Row, build_problem
+from compromise.qp import SmallQP
 
 MAP_AXES: dict[str, tuple[str, str]] = {
     "horizontal_ratio": ("horizontal ratio X (model / prototype)", "-"),
@@ -354,11 +355,11 @@ def design_map(
         t_fixed = cells[:, 1 - ratio_cols[0]]
     extra_e = np.log(cells[:, ratio_cols])
     map_engine = Engine(problem, extra_E=extra)
-    qp = BatchQP(map_engine.H, problem.G, np.vstack([problem.E, extra]))
+    qp = SmallQP(map_engine.H, problem.G, np.vstack([problem.E, extra]))
 
     def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
         f, h, e, _ = map_engine.linear_terms(p, extra_e=extra_e[items])
-        y, _ = qp.solve(f, h, e)
+        y = qp.solve(f, h, e).y
         return map_engine.true_objective(y, p)
 
     T, _, obj = lower_envelope(
@@ -420,19 +421,19 @@ def _boundaries(
             continue  # the frame of the map
         others = [j for j in bounds if j != i]
         G = problem.G[others]
-        qp = BatchQP(2.0 * reg * np.eye(3), G, E)
+        qp = SmallQP(2.0 * reg * np.eye(3), G, E)
 
         def violation(
             items: np.ndarray,
             p: np.ndarray,
             i: int = i,
             others: list[int] = others,
-            qp: BatchQP = qp,
+            qp: SmallQP = qp,
         ) -> np.ndarray:
             h, e = problem.rhs(p)
             e = np.hstack([e, extra_e[items]])
             f = np.broadcast_to(problem.G[i], (p.shape[0], 3))
-            y, _ = qp.solve(f, h[:, others], e)
+            y = qp.solve(f, h[:, others], e).y
             g = y @ problem.G[i] - h[:, i]
             return np.where(np.isfinite(g), g, np.inf)
 

@@ -1,14 +1,6 @@
-"""Shared machinery of the trade-off tools: a fast exact batch of small QPs, and lower envelopes
-over the model fluid's state.
+"""Shared machinery of the trade-off tools: lower envelopes over the model fluid's state.
 
-:class:`BatchQP` solves many subproblems
-
-    minimise   1/2 y' H y + f' y
-    subject to G y <= h,   E y = e
-
-that share ``H``, ``G`` and ``E``, exactly, by the enumeration of candidate active sets that
-:mod:`compromise.qp` describes; it precomputes, for every candidate, the maps from the right-hand
-side to the point *and to the row values* ``G y``, so a batch costs two matrix products.
+The subproblems themselves are solved exactly, many at a time, by :class:`compromise.qp.SmallQP`.
 
 :func:`lower_envelope` minimises a batched objective over a model fluid's temperature (and, for a
 gas, log-pressure) for many items at once: a grid, then rounds of a finer grid around the best
@@ -19,109 +11,14 @@ cubic spline in log-pressure (the tables themselves are splines in temperature a
 
 from __future__ import annotations
 
-import itertools
 from collections.abc import Callable
 
 import numpy as np
 
 from compromise.grid import FluidStates
-from compromise.qp import FEASIBILITY_TOL
 
 N_ZOOM = 9  # points per zoom round; each round shrinks the interval fourfold
 ZOOM_ROUNDS = 8  # 4^8: a 1 K grid cell is resolved to about 2e-5 K
-CHUNK = 20000  # subproblems per batch (bounds the memory of the enumeration)
-
-
-class BatchQP:
-    """Exact batched solver of small strictly convex QPs sharing ``H``, ``G`` and ``E``.
-
-    Parameters
-    ----------
-    H : (n, n) array
-        Positive definite Hessian.
-    G : (m, n) array
-        Inequality normals.
-    E : (q, n) array
-        Equality normals.
-
-    Notes
-    -----
-    The optimum of a strictly convex QP is the minimiser over the affine set of a linearly
-    independent subset of its active rows; every such subset is a candidate, and the best
-    feasible candidate is the optimum (Nocedal & Wright 2006, ch. 16, from memory).
-    """
-
-    def __init__(self, H: np.ndarray, G: np.ndarray, E: np.ndarray) -> None:
-        H, G, E = (np.asarray(a, dtype=float) for a in (H, G, E))
-        n, m, q = H.shape[0], G.shape[0], E.shape[0]
-        self.n, self.m, self.q = n, m, q
-        self.H, self.G, self.E = H, G, E
-        keep: list[int] = []
-        for j in range(q):
-            if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
-                keep.append(j)
-        self.check_eq = len(keep) < q
-        ne, r = len(keep), n + q + m
-        maps = []
-        for k in range(min(n - ne, m) + 1):
-            for combo in itertools.combinations(range(m), k):
-                C = np.vstack([E[keep], G[list(combo)]]) if ne + k else np.zeros((0, n))
-                if ne + k and np.linalg.svd(C, compute_uv=False)[-1] <= 1e-10 * max(
-                    1.0, float(np.abs(C).max())
-                ):
-                    continue
-                K = np.zeros((n + ne + k, n + ne + k))
-                K[:n, :n] = H
-                K[:n, n:] = C.T
-                K[n:, :n] = C
-                Kinv = np.linalg.inv(K)[:n]
-                M = np.zeros((n, r))
-                M[:, :n] = Kinv[:, :n]
-                for i, j in enumerate(keep):
-                    M[:, n + j] = Kinv[:, n + i]
-                for i, j in enumerate(combo):
-                    M[:, n + q + j] = Kinv[:, n + ne + i]
-                maps.append(M)
-        self.n_candidates = len(maps)
-        Ms = np.array(maps)  # (s, n, r)
-        self._Y = Ms.reshape(-1, r)
-        self._GY = (G @ Ms).reshape(-1, r) if m else np.zeros((0, r))
-        self._EY = (E @ Ms).reshape(-1, r) if self.check_eq else np.zeros((0, r))
-
-    def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        """Optimal points (N, n) and values ``1/2 y'Hy + f'y`` (N,); nan and inf if infeasible."""
-        f = np.atleast_2d(np.asarray(f, dtype=float))
-        N = f.shape[0]
-        h = np.broadcast_to(np.asarray(h, dtype=float).reshape(-1, self.m), (N, self.m))
-        e = np.broadcast_to(np.asarray(e, dtype=float).reshape(-1, self.q), (N, self.q))
-        ys, vals = np.empty((N, self.n)), np.empty(N)
-        for a in range(0, N, CHUNK):
-            b = min(N, a + CHUNK)
-            ys[a:b], vals[a:b] = self._solve(f[a:b], h[a:b], e[a:b])
-        return ys, vals
-
-    def _solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        N, s, n = f.shape[0], self.n_candidates, self.n
-        rhs = np.hstack([-f, e, h]).T  # (r, N)
-        Y = (self._Y @ rhs).reshape(s, n, N)
-        ok = np.ones((s, N), dtype=bool)
-        if self.m:
-            GY = (self._GY @ rhs).reshape(s, self.m, N)
-            ht = h.T[None]
-            ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=1)
-        if self.check_eq:
-            EY = (self._EY @ rhs).reshape(s, self.q, N)
-            et = e.T[None]
-            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=1)
-        HY = np.matmul(self.H, Y)
-        val = np.einsum("sin,sin->sn", Y, 0.5 * HY + f.T[None])
-        val = np.where(ok, val, np.inf)
-        best = np.argmin(val, axis=0)
-        idx = np.arange(N)
-        v = val[best, idx]
-        y = Y[best, :, idx]
-        y[~np.isfinite(v)] = np.nan
-        return y, v
 
 
 class StateSpace:

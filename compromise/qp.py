@@ -27,6 +27,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 FEASIBILITY_TOL = 1e-9  # [-] on log-ratios
+CHUNK = 20000  # subproblems per batch (bounds the memory of the enumeration)
 
 
 @dataclass(frozen=True)
@@ -117,9 +118,14 @@ class SmallQP:
             maps.append(M[:, :n, :])
             mults.append(L)
         self.subsets = subsets
-        allmaps = np.concatenate(maps, axis=0)
+        allmaps = np.concatenate(maps, axis=0)  # (s, n, r)
         self._maps = allmaps.reshape(len(subsets) * n, r)
         self._mults = np.concatenate(mults, axis=0)
+        # row values G y and E y as maps of the right-hand side too: feasibility costs one
+        # matrix product per batch
+        self._check_eq = len(eq_keep) < q
+        self._GY = (self.G @ allmaps).reshape(-1, r) if m else np.zeros((0, r))
+        self._EY = (self.E @ allmaps).reshape(-1, r) if self._check_eq else np.zeros((0, r))
 
     def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> QPBatch:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
@@ -133,28 +139,38 @@ class SmallQP:
             np.asarray(e, dtype=float).reshape(-1, self.q) if self.q else np.zeros((1, 0)),
             (N, self.q),
         )
-        rhs = np.hstack([-f, e, h])  # (N, r)
-        ns = len(self.subsets)
-        Y = (self._maps @ rhs.T).reshape(ns, self.n, N).transpose(0, 2, 1)  # (s, N, n)
+        y, obj = np.empty((N, self.n)), np.empty(N)
+        active = np.empty(N, dtype=int)
+        for a in range(0, N, CHUNK):
+            b = min(N, a + CHUNK)
+            y[a:b], obj[a:b], active[a:b] = self._solve(f[a:b], h[a:b], e[a:b])
+        feasible = np.isfinite(obj)
+        return QPBatch(y=y, objective=obj, active=active, feasible=feasible)
+
+    def _solve(
+        self, f: np.ndarray, h: np.ndarray, e: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        N, ns, n = f.shape[0], len(self.subsets), self.n
+        rhs = np.hstack([-f, e, h]).T  # (r, N)
+        Y = (self._maps @ rhs).reshape(ns, n, N)
         ok = np.ones((ns, N), dtype=bool)
         if self.m:
-            slack = h[None] - Y @ self.G.T  # (s, N, m)
-            ok &= np.all(slack >= -FEASIBILITY_TOL * (1 + np.abs(h[None])), axis=2)
-        if self.q:
-            res = Y @ self.E.T - e[None]
-            ok &= np.all(np.abs(res) <= FEASIBILITY_TOL * (1 + np.abs(e[None])), axis=2)
-        obj = 0.5 * np.einsum("sni,ij,snj->sn", Y, self.H, Y) + np.einsum("sni,ni->sn", Y, f)
-        obj = np.where(ok, obj, np.inf)
-        best = np.argmin(obj, axis=0)
+            GY = (self._GY @ rhs).reshape(ns, self.m, N)
+            ht = h.T[None]
+            ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=1)
+        if self._check_eq:
+            EY = (self._EY @ rhs).reshape(ns, self.q, N)
+            et = e.T[None]
+            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=1)
+        val = np.einsum("sin,sin->sn", Y, 0.5 * np.matmul(self.H, Y) + f.T[None])
+        val = np.where(ok, val, np.inf)
+        best = np.argmin(val, axis=0)
         idx = np.arange(N)
-        feasible = np.isfinite(obj[best, idx])
-        y = np.where(feasible[:, None], Y[best, idx], np.nan)
-        return QPBatch(
-            y=y,
-            objective=np.where(feasible, obj[best, idx], np.inf),
-            active=np.where(feasible, best, -1),
-            feasible=feasible,
-        )
+        v = val[best, idx]
+        y = Y[best, :, idx]
+        feasible = np.isfinite(v)
+        y[~feasible] = np.nan
+        return y, v, np.where(feasible, best, -1)
 
     def multipliers(self, active: int, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> np.ndarray:
         """Multipliers (m,) of the inequality rows for one solved subproblem (zero if inactive).

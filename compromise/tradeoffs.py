@@ -21,7 +21,7 @@ group axis, whose ``|r|`` has the same minimisers as ``r^2``, else the first qua
 whose log is linear. To that objective a secondary term ``delta x (the other axes)`` is added
 (``r^2`` for a group, the log for a quantity) with a tiny positive ``delta``: the minimiser of
 the sum subject to the bounds is then Pareto optimal, never merely weakly so (Mavrotas 2009).
-Each such subproblem is a convex QP, solved exactly by :class:`compromise.envelope.BatchQP`, many
+Each such subproblem is a convex QP, solved exactly by :class:`compromise.qp.SmallQP`, many
 epsilon values and fluid states in one batch (only the right-hand sides differ). As in the
 solver, a tie-break ``1e-10 x |y - y0|^2`` keeps the Hessian positive definite; when every axis
 is a quantity the subproblem is an LP, and the tie-break moves its optimum by at most
@@ -62,11 +62,12 @@ import numpy as np
 from compromise.axes import Axis, axes_for, state_spaces
 from compromise.case import Case
 from compromise.design import Design
-from compromise.envelope import BatchQP, StateSpace, lower_envelope
+from compromise.envelope import StateSpace, lower_envelope
 from compromise.errors import CaseError
 from compromise.grid import REGULARISATION
 from compromise.pareto import TOL, gd_plus, hypervolume, knee_index, nondominated
 from compromise.problem import PROPERTY_NAMES, Problem
+from compromise.qp import SmallQP
 from compromise.scaling import N_DECISION
 
 __all__ = [
@@ -161,7 +162,7 @@ class Scalarised:
                 self.slots.append([row, row + 1])
                 row += 2
         self.G, self.h0, self.P = np.vstack(G), np.concatenate(h0), np.vstack(P)
-        self.qp = BatchQP(self.H, self.G, problem.E)
+        self.qp = SmallQP(self.H, self.G, problem.E)
 
     def solve(self, p: np.ndarray, eps: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
         """Optimal ``y`` (N, 3) and scalarised objective (N,) for property log-ratios ``p``
@@ -175,7 +176,7 @@ class Scalarised:
             for j, rows in enumerate(self.slots):
                 h[:, rows] += eps[:, j : j + 1]
         e = pr.e0 + p @ pr.Q.T
-        y, _ = self.qp.solve(p @ self.F.T + self.f0, h, e)
+        y = self.qp.solve(p @ self.F.T + self.f0, h, e).y
         J = np.zeros(p.shape[0])
         for w, a, b in self.quad:
             J += w * (y @ a + p @ b) ** 2

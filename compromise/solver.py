@@ -168,7 +168,13 @@ class Solution:
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data following the output contract of ``compromise solve --json``."""
-        out: dict[str, Any] = {"title": self.case.title, "status": self.status}
+        from compromise.report import CAUTION
+
+        out: dict[str, Any] = {
+            "title": self.case.title,
+            "status": self.status,
+            "caution": " ".join(CAUTION.split()),
+        }
         if not self.feasible or self.evaluation is None or self.design is None:
             out["objective"] = None
             out.update(self.conflict.to_dict() if self.conflict else {})

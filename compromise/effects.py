@@ -215,6 +215,31 @@ def _length_of(group: Group, case: Case) -> str | None:
     return lengths[0] if len(lengths) == 1 else None
 
 
+def _viscous_limits(case: Case, length: str | None, pipe: bool) -> tuple[float, float]:
+    """Reynolds numbers that bound the transitional range for a group's length.
+
+    Pipes (on the diameter): 2300 and 4000; a towed hull (``ship_resistance``, on its
+    length): 2e6 and 5e6, the range where laminar flow is a risk even with stimulators (common
+    practice); a body in an external flow (a length or chord that is not a depth): 5e5, the
+    critical Reynolds number of a flat plate (Schlichting, Boundary-Layer Theory, from memory);
+    open channels (on the depth): 500 and 2000 (Chow 1959).
+    """
+    if pipe or length == "diameter":
+        return 2300.0, 4000.0
+    if length is not None and case.quantities[length].axis != "vertical":
+        if "ship_resistance" in case.phenomena:
+            return 2.0e6, 5.0e6
+        if length in ("length", "chord", "span") or "compressibility" in case.phenomena:
+            return 5.0e5, 5.0e5
+    return 500.0, 2000.0
+
+
+def _on_depth(g: Group, case: Case) -> bool:
+    """Whether a Froude-type group's length is a depth (a vertical length)."""
+    length = _length_of(g, case)
+    return length is not None and case.quantities[length].axis == "vertical"
+
+
 def _is_reynolds(g: Group) -> bool:
     if g.power is None:
         return False
@@ -237,12 +262,12 @@ def _wavenumber(period: float, depth: float, g: float, sigma: float, rho: float)
 def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:
     """Flow regimes of prototype and model for every group, in every condition.
 
-    Viscous regime from Reynolds-type groups (velocity x length / nu): open-channel limits
-    500 / 2000 on depth (Chow 1959), pipe limits 2300 / 4000 on diameter; turbulent flow is
+    Viscous regime from Reynolds-type groups (velocity x length / nu), with the limits of
+    :func:`_viscous_limits` (open channel, pipe, towed hull, external flow); turbulent flow is
     split into smooth / transitional / rough by ks+ = u* ks / nu at 5 and 70 (Nikuradse 1933)
-    where the case gives a ``roughness``. Froude groups: subcritical below 1, supercritical
-    above. Mach groups: incompressible below 0.3. Waves (a ``wave_period``): capillary when the
-    wavenumber exceeds ``sqrt(rho g / sigma)``, where surface tension and gravity weigh equally
+    where the case gives a ``roughness``. Froude groups on a depth: subcritical below 1,
+    supercritical above. Mach groups: incompressible below 0.3. Waves (a ``wave_period``):
+    capillary when the wavenumber exceeds ``sqrt(rho g / sigma)``, where surface tension and gravity weigh equally
     in the dispersion relation.
     """
     out: list[Regime] = []
@@ -255,7 +280,7 @@ def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:
                 continue
             if _is_reynolds(g):
                 length = _length_of(g, case)
-                lo, hi = (2300.0, 4000.0) if pipe or length == "diameter" else (500.0, 2000.0)
+                lo, hi = _viscous_limits(case, length, pipe)
                 ks = []
                 for env, re in ((penv, gv.prototype), (menv, gv.model)):
                     if "roughness" in env and length is not None and re >= hi:
@@ -275,7 +300,9 @@ def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:
                         _viscous_regime(gv.model, lo, hi, ks[1]),
                     )
                 )
-            elif name == "froude" or (g.builtin and name == "densimetric_froude"):
+            elif (name == "froude" or (g.builtin and name == "densimetric_froude")) and (
+                _on_depth(g, case)
+            ):
                 out.append(
                     Regime(
                         name,

@@ -267,8 +267,8 @@ def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:
     split into smooth / transitional / rough by ks+ = u* ks / nu at 5 and 70 (Nikuradse 1933)
     where the case gives a ``roughness``. Froude groups on a depth: subcritical below 1,
     supercritical above. Mach groups: incompressible below 0.3. Waves (a ``wave_period``):
-    capillary when the wavenumber exceeds ``sqrt(rho g / sigma)``, where surface tension and gravity weigh equally
-    in the dispersion relation.
+    capillary when the wavenumber exceeds ``sqrt(rho g / sigma)``, where surface tension and
+    gravity weigh equally in the dispersion relation.
     """
     out: list[Regime] = []
     pipe = "pipe_flow" in case.phenomena

@@ -301,3 +301,16 @@ def test_tolerance_command(tmp_path):
     )
     assert r.exit_code == 0, r.output
     assert "With the floor reynolds >=" in r.output
+
+
+def test_regimes_only_where_they_mean_something():
+    # a towed hull: Reynolds on its length against the towing-tank range (2e6-5e6, common
+    # practice); no sub/supercritical label for a Froude number on a horizontal length
+    sol = solve(load_case("cases/towing_tank.toml"), alternatives=False)
+    kinds = {(r.group, r.kind) for r in sol.effects.regimes}
+    assert ("reynolds", "viscous") in kinds
+    assert ("froude", "froude") not in kinds
+    # a spillway's Froude number on the toe depth is supercritical in model and prototype
+    sol = solve(load_case("cases/spillway.toml"), alternatives=False)
+    froude = [r for r in sol.effects.regimes if r.group == "froude"]
+    assert froude and all(r.prototype == r.model == "supercritical" for r in froude)

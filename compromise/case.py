@@ -236,6 +236,7 @@ class Case:
                 {"quantity": lim.quantity, "kind": lim.kind, "bound": lim.bound}
                 for lim in self.limits
             ],
+            "phenomena": {k: dict(v) for k, v in self.phenomena.items()},
         }
 
 

@@ -287,23 +287,15 @@ def format_check(summary: dict[str, Any], path: str) -> str:
             for n, c in summary["conditions"].items()
         ]
         out += ["Conditions:", table(["condition", "weight", "overrides [SI]"], rows), ""]
+    gv = summary.get("group_values", {})
+    first = next(iter(summary["conditions"]))
     rows = [
-        [n, g["expression"], g["weight"], g["exact"], g["min"], g["max"]]
+        [n, g["expression"], g["weight"], g["exact"], g["min"], g["max"], gv.get(n)]
         for n, g in summary["groups"].items()
     ]
-    gv = summary.get("group_values", {})
-    if gv:
-        rows = [[*r, gv.get(r[0])] for r in rows]
-    out += [
-        "Groups:",
-        table(
-            ["group", "expression", "weight", "exact", "min", "max", "prototype"][
-                : len(rows[0]) if rows else 6
-            ],
-            rows,
-        ),
-        "",
-    ]
+    where = f" ({first})" if len(summary["conditions"]) > 1 else ""
+    head = ["group", "expression", "weight", "exact", "min", "max", f"prototype{where}"]
+    out += ["Groups:", table(head, rows), ""]
     m = summary["model"]
     out += [
         "Model choices:",
@@ -317,6 +309,11 @@ def format_check(summary: dict[str, Any], path: str) -> str:
     if summary["limits"]:
         rows = [[lim["quantity"], lim["kind"], lim["bound"]] for lim in summary["limits"]]
         out += ["", "Limits (model values):", table(["quantity", "kind", "bound [SI]"], rows)]
+    if summary.get("phenomena"):
+        out += ["", "Scale effects checked (phenomena):"]
+        for name, aliases in summary["phenomena"].items():
+            mapped = ", ".join(f"{k} = {v}" for k, v in aliases.items() if k != v)
+            out.append(f"  {name}" + (f" ({mapped})" if mapped else ""))
     return "\n".join(out)
 
 

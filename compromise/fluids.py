@@ -50,6 +50,7 @@ from compromise.errors import FluidRangeError, UnknownFluidError
 from compromise.units import ZERO_CELSIUS
 
 TABLE_KEYS = ("rho", "mu", "nu", "sigma", "c")
+PROPERTIES_CACHE = 4096  # states kept per fluid by Fluid.properties
 _TABLE_TOLERANCE = 1e-5  # [-] log-space error allowed at every interval midpoint when building
 GAS_T_MAX = 400.0  # [K] upper end of the catalogue for gases: laboratory temperatures
 
@@ -265,7 +266,20 @@ class Fluid(ABC):
             raise FluidRangeError(f"{'; '.join(broken)} (asked {_celsius(t)})")
 
     def properties(self, temperature: float, pressure: float = ATMOSPHERE) -> FluidProperties:
-        """Evaluate the source models directly at ``temperature`` [K] and ``pressure`` [Pa]."""
+        """Evaluate the source models directly at ``temperature`` [K] and ``pressure`` [Pa].
+
+        Results are kept (a few thousand states at most), so the same state asked for again by
+        the solver, the evaluation and the scale-effect checks costs nothing.
+        """
+        key = (float(temperature), float(pressure))
+        cache = self.__dict__.setdefault("_properties_cache", {})
+        if key not in cache:
+            if len(cache) >= PROPERTIES_CACHE:
+                cache.clear()
+            cache[key] = self._properties(*key)
+        return cache[key]
+
+    def _properties(self, temperature: float, pressure: float) -> FluidProperties:
         self.check(temperature, pressure)
         t, p = float(temperature), float(pressure)
         rho, mu, sigma, c = self._evaluate(t, p)

@@ -29,7 +29,7 @@ from compromise.friction import (
     ittc_1957,
     strickler_roughness,
 )
-from compromise.thresholds import THRESHOLDS, Threshold, thresholds_for
+from compromise.thresholds import DESIGN_NAMES, THRESHOLDS, Threshold, thresholds_for
 
 VERDICTS = ("pass", "marginal", "fail")
 
@@ -149,8 +149,9 @@ def _envs(case: Case, evaluation: Evaluation, cond: ConditionResult) -> tuple[di
     d = evaluation.design
     proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
     model = property_environment(get_fluid(d.fluid).properties(d.temperature, d.pressure))
-    penv = {n: q.prototype for n, q in cond.quantities.items()} | proto
+    penv = {n: q.prototype for n, q in cond.quantities.items()} | proto | {"distortion": 1.0}
     menv = {n: q.model for n, q in cond.quantities.items()} | model
+    menv["distortion"] = d.distortion
     return penv, menv
 
 
@@ -501,11 +502,14 @@ def with_thresholds(case: Case) -> Case:
     """A copy of the case whose phenomena's thresholds are floors or ceilings on model values.
 
     Each threshold becomes a group of weight 0 named ``<phenomenon>.<name>`` with ``min`` (or
-    ``max``) at its passing value, so the solver treats it like any group bound.
+    ``max``) at its passing value, so the solver treats it like any group bound. Thresholds on
+    the design itself (the distortion) are left to the case's ``[model]`` bounds.
     """
     groups = dict(case.groups)
     for phen, aliases in case.phenomena.items():
         for t in thresholds_for(phen):
+            if set(ex.names(ex.parse(t.expression))) & set(DESIGN_NAMES):
+                continue  # a bound on the design itself: the case's [model] bounds hold it
             tree = ex.substitute(
                 ex.parse(t.expression), {k: ex.parse(v) for k, v in aliases.items()}
             )

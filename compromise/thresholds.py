@@ -236,6 +236,20 @@ THRESHOLDS: tuple[Threshold, ...] = (
         "physics",
     ),
     Threshold(
+        "distortion",
+        "ratio",
+        "vertical exaggeration Y/X of a distorted model",
+        "distortion",
+        "max",
+        10.0,
+        5.0,
+        "-",
+        "US Bureau of Reclamation, Physical modeling of rivers in the hydraulics laboratory "
+        "(research project 21200): distortion below 5 for quantitative data, up to 10 feasible; "
+        "valid only where vertical velocities and accelerations are small (Hughes 1993)",
+        "found",
+    ),
+    Threshold(
         "pipe_flow",
         "turbulent",
         "turbulent pipe flow, Re = V D / nu",
@@ -263,7 +277,11 @@ PHENOMENA: dict[str, str] = {
     "ship_resistance": "towing-tank hull resistance",
     "compressibility": "gas flows that must stay incompressible",
     "pipe_flow": "full pipe flow (friction)",
+    "distortion": "distorted models: how far the vertical scale is exaggerated",
 }
+
+#: Names a threshold may use that describe the design rather than a prototype quantity.
+DESIGN_NAMES: tuple[str, ...] = ("distortion",)
 
 
 def thresholds_for(phenomenon: str) -> tuple[Threshold, ...]:
@@ -278,4 +296,4 @@ def conventional_names(phenomenon: str) -> tuple[str, ...]:
     out: set[str] = set()
     for t in thresholds_for(phenomenon):
         out |= ex.names(ex.parse(t.expression))
-    return tuple(sorted(out - set(ex.PROPERTY_NAMES)))
+    return tuple(sorted(out - set(ex.PROPERTY_NAMES) - set(DESIGN_NAMES)))

@@ -104,6 +104,7 @@ def test_every_threshold_has_a_source_and_status():
         ("rubble_mound", "reynolds", 3e4, 3e4),  # Dai & Kamel (1969)
         ("ship_resistance", "reynolds", 2e6, 5e6),  # common practice
         ("compressibility", "mach", 0.3, 0.3),
+        ("distortion", "ratio", 10.0, 5.0),  # USBR research project 21200 (found)
     ],
 )
 def test_threshold_values(phenomenon, name, failing, passing):
@@ -314,3 +315,32 @@ def test_regimes_only_where_they_mean_something():
     sol = solve(load_case("cases/spillway.toml"), alternatives=False)
     froude = [r for r in sol.effects.regimes if r.group == "froude"]
     assert froude and all(r.prototype == r.model == "supercritical" for r in froude)
+
+
+@pytest.mark.parametrize(
+    ("distortion", "verdict"), [(3.0, "pass"), (7.0, "marginal"), (12.0, "fail")]
+)
+def test_distortion_threshold_usbr(distortion, verdict):
+    # USBR research project 21200: quantitative data below 5, up to 10 feasible
+    case = case_from_dict(
+        {
+            "prototype": {
+                "fluid": "water",
+                "temperature": "15 degC",
+                "quantities": {
+                    "depth": {"value": "4 m", "axis": "vertical"},
+                    "velocity": "1.5 m/s",
+                },
+            },
+            "groups": {"froude": {"exact": True}},
+            "model": {"horizontal_ratio": "1:400", "distortion": distortion},
+            "phenomena": ["distortion"],
+        },
+        path="distorted.toml",
+    )
+    sol = solve(case, alternatives=False)
+    check = next(c for c in sol.effects.checks if c.threshold.phenomenon == "distortion")
+    assert check.model == pytest.approx(distortion, rel=1e-12)
+    assert check.verdict == verdict
+    # the design bound stays the case's: enforcing thresholds adds no group for it
+    assert solve(case, enforce_thresholds=True, alternatives=False).status == "optimal"

@@ -120,3 +120,39 @@ def test_scale_selection_pump_capacity_rule_chanson1999():
     assert_allclose(q, 0.2, rtol=1e-9)
     # velocity on the Froude rule
     assert_allclose(sol.design.velocity_ratio, math.sqrt(sol.design.horizontal_ratio), rtol=1e-9)
+
+
+def test_distorted_river_exercise_turbulence_and_froude():
+    # Distorted river model exercise (X = 1/500, Y = 1/100; h = 5 m, B = 120 m,
+    # Q = 1500 m^3/s, S = 0.00032, n = 0.021; textbook attribution from memory: Sturm, Open
+    # Channel Hydraulics, ch. 10): "verify that turbulent flow will occur in the model, and
+    # calculate both model and prototype Froude numbers". V = Q / (B h) = 2.5 m/s,
+    # Fr = 2.5 / (9.80665 x 5)^1/2 = 0.357 in both; model V h / nu = 0.25 x 0.05 / nu.
+    case = case_from_dict(
+        {
+            "prototype": {
+                "fluid": "water",
+                "temperature": "20 degC",
+                "quantities": {
+                    "depth": {"value": "5 m", "axis": "vertical"},
+                    "width": "120 m",
+                    "velocity": "2.5 m/s",
+                    "discharge": "1500 m^3/s",
+                    "manning_n": 0.021,
+                },
+            },
+            "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
+            "model": {"horizontal_ratio": "1:500", "distortion": 5, "temperature": "20 degC"},
+            "phenomena": ["open_channel"],
+        },
+        path="exercise.toml",
+    )
+    sol = solve(case)
+    fr = sol.evaluation.conditions[0].groups["froude"]
+    assert_allclose([fr.prototype, fr.model], 2.5 / math.sqrt(9.80665 * 5), rtol=1e-9)
+    assert round(fr.model, 3) == 0.357
+    check = next(c for c in sol.effects.checks if c.threshold.phenomenon == "open_channel")
+    assert_allclose(check.model, 0.25 * 0.05 / 1.0034e-6, rtol=1e-4)  # IAPWS nu at 20 degC
+    assert check.verdict == "pass"  # turbulent: above 2000 (Chow 1959)
+    q = sol.evaluation.conditions[0].quantities["discharge"]
+    assert_allclose(q.model, 1500 * 2.0e-6, rtol=1e-9)

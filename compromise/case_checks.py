@@ -29,7 +29,7 @@ from compromise.case import (
     fraction_text,
 )
 from compromise.errors import CaseError, ExpressionError, FluidRangeError, UnknownFluidError
-from compromise.scaling import BASIS, INDEX, default_scaling
+from compromise.scaling import BASIS, DERIVED_KINDS, INDEX, default_scaling
 from compromise.units import dimension_name, parse_quantity, parse_ratio, si_unit
 
 
@@ -198,11 +198,21 @@ def check_quantity(L: Loader, name: str, entry: Any, key: str) -> Quantity | Non
         if axis == "section" and dim != (0, 2, 0, 0):
             L.error(f"{key}.axis", "only an area can have axis 'section'; use scales_as")
             return None
-        scaling = default_scaling(dim, axis)
+        if name in CONVENTIONAL_SCALINGS and dim == (0, 0, 0, 0):
+            # a bare slope or Manning n scales by its law, not as a plain number
+            scaling = DERIVED_KINDS[name][0].copy()
+        else:
+            scaling = default_scaling(dim, axis)
         if scaling is None:
             L.error(key, f"cannot scale a {dimension_name(dim)} by its dimension; give scales_as")
             return None
     return Quantity(name, si, dim, si_unit(dim), scaling, axis, scales_as, description)
+
+
+#: Dimensionless quantities whose name says how they scale (see scaling.DERIVED_KINDS):
+#: a slope as Y/X; a Manning n as Y^(7/6) X^(-1/2) / V (wide channel; Y^(2/3) X^(-1/2) under
+#: Froude); a Darcy f as Y^2 / (X V^2).
+CONVENTIONAL_SCALINGS = ("slope", "manning_n", "darcy_f")
 
 
 def check_scales_as(L: Loader, text: str, key: str) -> np.ndarray | None:

@@ -186,13 +186,22 @@ class Evaluation:
         """Sum over conditions of condition weight x weighted squared log-mismatches."""
         return sum(c.weight * c.objective for c in self.conditions)
 
-    def worst_limits(self) -> dict[str, tuple[str, LimitValue]]:
-        """For each limit, the condition with the smallest margin and its value there."""
-        out: dict[str, tuple[str, LimitValue]] = {}
+    def worst_limits(self) -> dict[str, tuple[str | None, LimitValue]]:
+        """For each limit, the condition with the smallest margin and its value there.
+
+        The condition is None where every condition gives the same margin (a limit on a
+        quantity that no condition changes).
+        """
+        out: dict[str, tuple[str | None, LimitValue]] = {}
+        margins: dict[str, list[float]] = {}
         for c in self.conditions:
             for k, v in c.limits.items():
+                margins.setdefault(k, []).append(v.margin)
                 if k not in out or v.margin < out[k][1].margin:
                     out[k] = (c.name, v)
+        for k, ms in margins.items():
+            if len(ms) > 1 and max(ms) - min(ms) <= 1e-12 * max(1.0, abs(min(ms))):
+                out[k] = (None, out[k][1])
         return out
 
     @property

@@ -162,3 +162,20 @@ def test_scale_table_json_keys(froude_25):
     ):
         assert key in d["ratios"]
     assert np.isfinite(list(d["ratios"].values())).all()
+
+
+def test_conventional_names_scale_by_their_law():
+    # a bare slope scales as Y/X and a bare Manning n as Y^(2/3) X^(-1/2) under Froude
+    # (Chanson 1999, ch. 14, from memory), without scales_as
+    case = _river(
+        {
+            "depth": {"value": "5 m", "axis": "vertical"},
+            "velocity": "2.5 m/s",
+            "slope": 0.00032,
+            "manning_n": 0.021,
+        }
+    )
+    t = scale_table(case, 1 / 500, vertical=1 / 100)
+    q = t.evaluation.conditions[0].quantities
+    assert_allclose(q["slope"].ratio, 5.0, rtol=1e-12)
+    assert_allclose(q["manning_n"].model, 0.0218, atol=5e-5)

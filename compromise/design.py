@@ -210,22 +210,34 @@ class Evaluation:
         return not any(v.violated for _, v in self.worst_limits().values())
 
 
+def property_environments(
+    case: Case, fluid: str, temperature: float, pressure: float
+) -> tuple[dict[str, float], dict[str, float]]:
+    """Prototype and model fluid properties (``rho, mu, nu, sigma, c, g``) from the source
+    models (not the solver's splines)."""
+    from compromise.fluids import get_fluid
+
+    proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
+    model = property_environment(get_fluid(fluid).properties(temperature, pressure))
+    return proto, model
+
+
+def _log_ratios(model: dict[str, float], proto: dict[str, float]) -> np.ndarray:
+    return np.array(
+        [
+            math.log(model[n] / proto[n]) if model[n] > 0 and proto[n] > 0 else float("nan")
+            for n in PROPERTY_NAMES
+        ]
+    )
+
+
 def property_log_ratios(case: Case, fluid: str, temperature: float, pressure: float) -> np.ndarray:
     """``ln(model / prototype)`` of rho, mu, nu, sigma, c, g for a model fluid state.
 
     Uses the fluids' source models (not the solver's splines).
     """
-    from compromise.fluids import get_fluid
-
-    proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
-    model = property_environment(get_fluid(fluid).properties(temperature, pressure))
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return np.array(
-            [
-                math.log(model[n] / proto[n]) if model[n] > 0 and proto[n] > 0 else float("nan")
-                for n in PROPERTY_NAMES
-            ]
-        )
+    proto, model = property_environments(case, fluid, temperature, pressure)
+    return _log_ratios(model, proto)
 
 
 def evaluate_design(case: Case, design: Design) -> Evaluation:
@@ -235,16 +247,11 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
     model quantities and the model fluid's properties (so non-power-product groups are exact
     too); limit margins are fractional slacks, negative where a limit is violated.
     """
-    from compromise.fluids import get_fluid
-
     y = design.logs
-    p = property_log_ratios(case, design.fluid, design.temperature, design.pressure)
-    proto_props = property_environment(
-        get_fluid(case.fluid).properties(case.temperature, case.pressure)
+    proto_props, model_props = property_environments(
+        case, design.fluid, design.temperature, design.pressure
     )
-    model_props = property_environment(
-        get_fluid(design.fluid).properties(design.temperature, design.pressure)
-    )
+    p = _log_ratios(model_props, proto_props)
     results = []
     for i, cond in enumerate(case.conditions):
         vals = case.values(i)

@@ -143,12 +143,10 @@ class Effects:
 
 def _envs(case: Case, evaluation: Evaluation, cond: ConditionResult) -> tuple[dict, dict]:
     """Prototype and model environments (quantities and fluid properties) of one condition."""
-    from compromise.fluids import get_fluid
-    from compromise.problem import property_environment
+    from compromise.design import property_environments
 
     d = evaluation.design
-    proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
-    model = property_environment(get_fluid(d.fluid).properties(d.temperature, d.pressure))
+    proto, model = property_environments(case, d.fluid, d.temperature, d.pressure)
     penv = {n: q.prototype for n, q in cond.quantities.items()} | proto | {"distortion": 1.0}
     menv = {n: q.model for n, q in cond.quantities.items()} | model
     menv["distortion"] = d.distortion

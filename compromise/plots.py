@@ -130,14 +130,12 @@ def front_figure(front: Front) -> Figure:
                 label="knee",
             )
             if n == 0:
-                ax.annotate(
+                _callout(
+                    ax,
                     f"knee: {short_label(front.points[front.knee].design)}",
                     (kv[i], kv[j]),
-                    xytext=(0.55, 0.80),
-                    textcoords="axes fraction",
-                    fontsize=8.5,
-                    arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
-                    bbox={"boxstyle": "round,pad=0.25", "fc": "white", "ec": "0.6"},
+                    0.80,
+                    "white",
                 )
         if front.chosen is not None:
             cv = front.chosen.values
@@ -153,14 +151,12 @@ def front_figure(front: Front) -> Figure:
                 label="solver's design",
             )
             if n == 0:
-                ax.annotate(
+                _callout(
+                    ax,
                     f"chosen: {short_label(front.chosen.design)}",
                     (cv[i], cv[j]),
-                    xytext=(0.55, 0.70),
-                    textcoords="axes fraction",
-                    fontsize=8.5,
-                    arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
-                    bbox={"boxstyle": "round,pad=0.25", "fc": "#fff7cc", "ec": "0.6"},
+                    0.70,
+                    "#fff7cc",
                 )
         for idx, line in ((i, ax.axvline), (j, ax.axhline)):
             a = front.axes[idx]
@@ -591,3 +587,16 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
         fontsize=10.5,
     )
     return fig
+
+
+def _callout(ax: Any, text: str, xy: tuple[float, float], height: float, face: str) -> None:
+    """A boxed label at (0.55, ``height``) in axes fraction, with a line to the point ``xy``."""
+    ax.annotate(
+        text,
+        xy,
+        xytext=(0.55, height),
+        textcoords="axes fraction",
+        fontsize=8.5,
+        arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
+        bbox={"boxstyle": "round,pad=0.25", "fc": face, "ec": "0.6"},
+    )

@@ -14,15 +14,51 @@ programs. *ORSA Journal on Computing* 3(2), 157-168 (the deletion filter), from 
 from __future__ import annotations
 
 import math
-from typing import TYPE_CHECKING
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from compromise.problem import Problem, Row
-from compromise.solver import Conflict, relaxed_bound
 
 if TYPE_CHECKING:
-    from compromise.solver import FluidStates
+    from compromise.grid import FluidStates
+
+
+@dataclass(frozen=True)
+class Conflict:
+    """Why a case is infeasible: limits that cannot hold together and how far each must move.
+
+    Attributes
+    ----------
+    keys : tuple of str
+        Case-file keys of a smallest set of bounds that cannot hold together.
+    relaxation : dict
+        For each key, the bound that would make the case feasible on its own [SI]; ``None``
+        where relaxing that bound alone cannot help.
+    conditions : dict
+        For each key, the condition that makes it bind (or ``None``).
+    """
+
+    keys: tuple[str, ...]
+    relaxation: dict[str, float | None]
+    conditions: dict[str, str | None] = field(default_factory=dict)
+    units: dict[str, str] = field(default_factory=dict)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        return {
+            "conflict": list(self.keys),
+            "relaxation": dict(self.relaxation),
+            "conditions": dict(self.conditions),
+            "units": dict(self.units),
+        }
+
+
+def relaxed_bound(row: Row, shift: float) -> float:
+    """The user's bound after a right-hand-side shift ``shift`` of its row (log space)."""
+    return row.bound * math.exp(shift) if row.side == "max" else row.bound * math.exp(-shift)
+
 
 N_DIAGNOSIS_TEMPERATURES = 12
 TOL = 1e-9

@@ -221,6 +221,7 @@ def solve_nonlinear(
     the marginal rate that stands in for the multiplier); preferred ratios are solved with the
     horizontal ratio fixed.
     """
+    from compromise.diagnose import relaxed_bound
     from compromise.solver import (
         RELAXATION,
         Alternative,
@@ -231,7 +232,6 @@ def solve_nonlinear(
         _design,
         _pick,
         _separator,
-        relaxed_bound,
     )
     from compromise.units import format_ratio
 

@@ -18,6 +18,7 @@ import numpy as np
 
 from compromise.case import Case
 from compromise.design import Design, Evaluation, evaluate_design
+from compromise.diagnose import Conflict, relaxed_bound
 from compromise.grid import (  # noqa: F401  (re-exported: the grid engine is part of the API)
     N_PRESSURES,
     N_TEMPERATURES,
@@ -31,7 +32,7 @@ from compromise.grid import (  # noqa: F401  (re-exported: the grid engine is pa
     best_state,
     best_states,
 )
-from compromise.problem import PROPERTY_NAMES, Problem, Row, build_problem
+from compromise.problem import PROPERTY_NAMES, Problem, build_problem
 
 RELAXATION = 0.10  # "what a binding limit costs": relax it by 10 %
 
@@ -99,36 +100,6 @@ class Alternative:
             "objective": self.objective if math.isfinite(self.objective) else None,
             "feasible": self.feasible,
             "separator": self.separator,
-        }
-
-
-@dataclass(frozen=True)
-class Conflict:
-    """Why a case is infeasible: limits that cannot hold together and how far each must move.
-
-    Attributes
-    ----------
-    keys : tuple of str
-        Case-file keys of a smallest set of bounds that cannot hold together.
-    relaxation : dict
-        For each key, the bound that would make the case feasible on its own [SI]; ``None``
-        where relaxing that bound alone cannot help.
-    conditions : dict
-        For each key, the condition that makes it bind (or ``None``).
-    """
-
-    keys: tuple[str, ...]
-    relaxation: dict[str, float | None]
-    conditions: dict[str, str | None] = field(default_factory=dict)
-    units: dict[str, str] = field(default_factory=dict)
-
-    def to_dict(self) -> dict[str, Any]:
-        """Plain data."""
-        return {
-            "conflict": list(self.keys),
-            "relaxation": dict(self.relaxation),
-            "conditions": dict(self.conditions),
-            "units": dict(self.units),
         }
 
 
@@ -305,11 +276,6 @@ def _solve(case: Case, n_temperatures: int, alternatives: bool) -> Solution:
         else ()
     )
     return Solution(case, "optimal", best.objective, design, evaluation, binding, alts)
-
-
-def relaxed_bound(row: Row, shift: float) -> float:
-    """The user's bound after a right-hand-side shift ``shift`` of its row (log space)."""
-    return row.bound * math.exp(shift) if row.side == "max" else row.bound * math.exp(-shift)
 
 
 def _binding_costs(

@@ -17,9 +17,10 @@ from pathlib import Path
 
 import numpy as np
 
-from compromise.case import case_from_dict
-from compromise.problem import build_problem
-from compromise.solver import FluidStates, solve
+from compromise.casefile.load import case_from_dict
+from compromise.review.answer import solve
+from compromise.solving.grid import FluidStates
+from compromise.solving.problem import build_problem
 
 ROOT = Path(__file__).resolve().parents[1]
 SIX = [

@@ -3,7 +3,7 @@
 On the bundled river case, the front between the weighted mismatch and the model discharge
 (the pump limit lifted), traced in one run by
 
-* ``compromise.tradeoffs.trace_front`` (exact epsilon-constraint, 100 points), and
+* ``compromise.explore.tradeoffs.trace_front`` (exact epsilon-constraint, 100 points), and
 * NSGA-II from pymoo (Deb, K., Pratap, A., Agarwal, S., Meyarivan, T. (2002). A fast and elitist
   multiobjective genetic algorithm: NSGA-II. IEEE Trans. Evol. Comput. 6(2), 182-197), with a
   population of 100 for 200 generations, over (ln X, ln distortion, temperature), the velocity
@@ -12,7 +12,8 @@ On the bundled river case, the front between the weighted mismatch and the model
 Both fronts are measured against a reference: the same exact sweep with 2000 points, taken as
 the piecewise-linear curve through them. In axes normalised to the reference's range (ideal 0,
 nadir 1), it prints each method's time, hypervolume (reference point (1.1, 1.1)) and GD+ (to the
-curve, :func:`compromise.pareto.gd_plus_polyline`), and the ratios. Targets: 100 points in under
+curve, :func:`compromise.explore.pareto.gd_plus_polyline`), and the ratios. Targets: 100 points in
+under
 0.3 s, a hypervolume at least NSGA-II's, GD+ under 1e-6.
 
 pymoo is installed for this script only (``.venv/bin/pip install pymoo``); it is not a
@@ -29,10 +30,10 @@ from pathlib import Path
 
 import numpy as np
 
-from compromise.axes import axes_for, state_spaces
-from compromise.case import load_case
-from compromise.pareto import gd_plus_polyline, hypervolume, nondominated
-from compromise.tradeoffs import trace_front
+from compromise.casefile.load import load_case
+from compromise.explore.axes import axes_for, state_spaces
+from compromise.explore.pareto import gd_plus_polyline, hypervolume, nondominated
+from compromise.explore.tradeoffs import trace_front
 
 ROOT = Path(__file__).resolve().parents[1]
 AXES = ["total", "discharge"]

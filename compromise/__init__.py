@@ -26,29 +26,29 @@ __all__ = [
 ]
 
 _LAZY = {
-    "load_case": "compromise.case",
-    "case_from_dict": "compromise.case",
-    "get_fluid": "compromise.fluids",
-    "derive_groups": "compromise.groups",
-    "scale_table": "compromise.design",
-    "evaluate_design": "compromise.design",
-    "solve": "compromise.solver",
-    "trace_front": "compromise.tradeoffs",
-    "assess": "compromise.effects",
-    "design_map": "compromise.designmap",
-    "weight_sensitivity": "compromise.sensitivity",
+    "load_case": "compromise.casefile.load",
+    "case_from_dict": "compromise.casefile.load",
+    "get_fluid": "compromise.physics.fluids",
+    "derive_groups": "compromise.physics.groups",
+    "scale_table": "compromise.solving.design",
+    "evaluate_design": "compromise.solving.design",
+    "solve": "compromise.review.answer",
+    "trace_front": "compromise.explore.tradeoffs",
+    "assess": "compromise.review.effects",
+    "design_map": "compromise.explore.designmap",
+    "weight_sensitivity": "compromise.explore.sensitivity",
 }
 
 if TYPE_CHECKING:  # pragma: no cover
-    from compromise.case import case_from_dict, load_case
-    from compromise.design import evaluate_design, scale_table
-    from compromise.designmap import design_map
-    from compromise.effects import assess
-    from compromise.fluids import get_fluid
-    from compromise.groups import derive_groups
-    from compromise.sensitivity import weight_sensitivity
-    from compromise.solver import solve
-    from compromise.tradeoffs import trace_front
+    from compromise.casefile.load import case_from_dict, load_case
+    from compromise.explore.designmap import design_map
+    from compromise.explore.sensitivity import weight_sensitivity
+    from compromise.explore.tradeoffs import trace_front
+    from compromise.physics.fluids import get_fluid
+    from compromise.physics.groups import derive_groups
+    from compromise.review.answer import solve
+    from compromise.review.effects import assess
+    from compromise.solving.design import evaluate_design, scale_table
 
 
 def __getattr__(name: str) -> Any:

@@ -82,7 +82,7 @@ def _guard(fn: Any) -> Any:
 
 
 def _load(path: Path) -> Any:
-    from compromise.case import load_case
+    from compromise.casefile.load import load_case
 
     return load_case(path)
 
@@ -120,8 +120,8 @@ def check(case: CaseArg, json_out: JsonOpt = False) -> None:
     """Validate a case file and print what it says: quantities, groups, choices, limits."""
 
     def body() -> None:
-        from compromise.problem import prototype_group_values
-        from compromise.report import format_check
+        from compromise.presentation.tables import format_check
+        from compromise.solving.problem import prototype_group_values
 
         c = _load(case)
         summary = c.summary()
@@ -157,13 +157,13 @@ def solve(
     """Find the design with the least weighted mismatch within every limit."""
 
     def body() -> int:
-        from compromise.report import format_solution
-        from compromise.solver import solve as run
+        from compromise.presentation.tables import format_solution
+        from compromise.review.answer import solve as run
 
         sol = run(_load(case), enforce_thresholds=enforce_thresholds)
         data = sol.to_dict()
         if csv is not None:
-            from compromise.report import write_csv
+            from compromise.presentation.tables import write_csv
 
             write_csv(data, csv)
         if json_out:
@@ -219,9 +219,9 @@ def scales(
     """Print the scale ratio of every kind of quantity, and the case's quantities and groups."""
 
     def body() -> None:
-        from compromise.design import scale_table
         from compromise.errors import CaseError
-        from compromise.report import format_scales
+        from compromise.presentation.tables import format_scales
+        from compromise.solving.design import scale_table
         from compromise.units import parse_ratio
 
         c = _load(case)
@@ -246,7 +246,7 @@ def scales(
         f = None
         if fluid is not None:
             from compromise.errors import UnknownFluidError
-            from compromise.fluids import get_fluid
+            from compromise.physics.fluids import get_fluid
 
             try:
                 f = get_fluid(fluid).name
@@ -256,7 +256,7 @@ def scales(
         p = _pressure(pressure, "--pressure") if pressure else None
         if f is not None or t is not None:
             from compromise.errors import FluidRangeError
-            from compromise.fluids import get_fluid
+            from compromise.physics.fluids import get_fluid
 
             try:
                 get_fluid(f or c.fluid).check(
@@ -286,8 +286,8 @@ def fluids(
     """List the fluid catalogue with its properties at one temperature and pressure."""
 
     def body() -> None:
-        from compromise.fluids import catalogue
-        from compromise.report import format_fluids
+        from compromise.physics.fluids import catalogue
+        from compromise.presentation.tables import format_fluids
         from compromise.units import to_celsius
 
         t = _temperature(temperature, "--temperature")
@@ -358,8 +358,8 @@ def groups(
 
     def body() -> None:
         from compromise.errors import CaseError
-        from compromise.groups import BUILTIN_GROUPS, derive_groups
-        from compromise.report import table
+        from compromise.physics.groups import BUILTIN_GROUPS, derive_groups
+        from compromise.presentation.tables import table
 
         if not derive:
             if json_out:
@@ -386,7 +386,7 @@ def groups(
             return
         variables: dict[str, tuple[int, ...]] = {}
         if case is not None:
-            from compromise.expr import PROPERTY_DIMENSIONS
+            from compromise.expressions import PROPERTY_DIMENSIONS
 
             c = _load(case)
             variables.update({n: q.dimension for n, q in c.quantities.items()})
@@ -451,9 +451,9 @@ def tolerance(
     """The smallest model Reynolds number that keeps a quantity's bias within a tolerance."""
 
     def body() -> int:
-        from compromise.effects import apply_tolerance, reynolds_tolerance
         from compromise.errors import CaseError
-        from compromise.report import format_solution, format_tolerance
+        from compromise.presentation.tables import format_solution, format_tolerance
+        from compromise.review.effects import apply_tolerance, reynolds_tolerance
 
         c = _load(case)
         text = within.strip()
@@ -467,7 +467,7 @@ def tolerance(
         data: dict[str, Any] = {"tolerance": res.to_dict()}
         sol = None
         if apply:
-            from compromise.solver import solve as run
+            from compromise.review.answer import solve as run
 
             c2, floor = apply_tolerance(c, res)
             sol = run(c2)
@@ -553,8 +553,8 @@ def tradeoff(
     """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
 
     def body() -> int:
-        from compromise.tradeoff_report import format_front, write_front
-        from compromise.tradeoffs import trace_front
+        from compromise.explore.tradeoffs import trace_front
+        from compromise.presentation.explore_tables import format_front, write_front
 
         front = trace_front(
             _load(case), _axes_list(between, more), points=points, lift=not keep_limits
@@ -606,8 +606,8 @@ def map_(
     """Draw the feasible window over two decision variables, with the mismatch inside it."""
 
     def body() -> int:
-        from compromise.designmap import design_map
-        from compromise.tradeoff_report import format_map, write_map
+        from compromise.explore.designmap import design_map
+        from compromise.presentation.explore_tables import format_map, write_map
 
         names = _axes_list(axes, more)
         dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
@@ -646,8 +646,8 @@ def sensitivity(
     """How often each candidate design (fluid x preferred ratio) is best when weights vary."""
 
     def body() -> int:
-        from compromise.sensitivity import weight_sensitivity
-        from compromise.tradeoff_report import format_sensitivity, write_sensitivity
+        from compromise.explore.sensitivity import weight_sensitivity
+        from compromise.presentation.explore_tables import format_sensitivity, write_sensitivity
 
         sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
         paths = write_sensitivity(sens, out or Path("out") / case.stem)

@@ -1,4 +1,5 @@
-"""Tests of the case loader (compromise.case): the design example, and bad input of every kind.
+"""Tests of the case loader (compromise.casefile.model): the design example, and bad input of every
+kind.
 
 Sources of the expected values:
 
@@ -35,10 +36,11 @@ import pytest
 import scipy.constants as sc
 from numpy.testing import assert_allclose
 
-from compromise import expr as ex
-from compromise.case import LENGTH_NAMES, Case, case_from_dict, load_case
+from compromise import expressions as ex
+from compromise.casefile.load import case_from_dict, load_case
+from compromise.casefile.model import LENGTH_NAMES, Case
 from compromise.errors import CaseError, CaseErrors
-from compromise.scaling import BASIS, DERIVED_KINDS, INDEX
+from compromise.physics.scaling import BASIS, DERIVED_KINDS, INDEX
 
 DATA = Path(__file__).parent / "data"
 EXAMPLE = DATA / "design_example.toml"

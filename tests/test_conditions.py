@@ -14,10 +14,10 @@ import pytest
 from numpy.testing import assert_allclose
 from typer.testing import CliRunner
 
-from compromise.case import case_from_dict
+from compromise.casefile.load import case_from_dict
 from compromise.cli import app
-from compromise.design import evaluate_design
-from compromise.solver import solve
+from compromise.review.answer import solve
+from compromise.solving.design import evaluate_design
 
 BASE = {
     "title": "two-flow river",

@@ -10,9 +10,8 @@ import math
 import pytest
 from numpy.testing import assert_allclose
 
-from compromise.case import case_from_dict, load_case
-from compromise.effects import reynolds_tolerance
-from compromise.friction import (
+from compromise.casefile.load import case_from_dict, load_case
+from compromise.physics.friction import (
     friction_factor,
     friction_factor_colebrook,
     friction_factor_fully_rough,
@@ -20,8 +19,9 @@ from compromise.friction import (
     ittc_1957,
     strickler_roughness,
 )
-from compromise.solver import solve
-from compromise.thresholds import PHENOMENA, THRESHOLDS, thresholds_for
+from compromise.physics.thresholds import PHENOMENA, THRESHOLDS, thresholds_for
+from compromise.review.answer import solve
+from compromise.review.effects import reynolds_tolerance
 
 # --- friction laws ---------------------------------------------------------------------------
 
@@ -114,7 +114,7 @@ def test_threshold_values(phenomenon, name, failing, passing):
 
 def test_capillary_wave_minimum_speed_dispersion_relation():
     # c_min = (4 g sigma / rho)^(1/4) = 0.231 m/s for water at 20 degC (computed, physics)
-    from compromise.fluids import get_fluid
+    from compromise.physics.fluids import get_fluid
 
     p = get_fluid("water").properties(293.15)
     c_min = (4 * 9.80665 * p.surface_tension / p.density) ** 0.25

@@ -1,4 +1,4 @@
-"""Tests of the safe expression language (compromise.expr).
+"""Tests of the safe expression language (compromise.expressions).
 
 Numerical oracles: the ``fluids`` library (Bell, C., fluids.core: Froude, Reynolds, Weber).
 Dimension vectors of the variables come from pint through ``compromise.units.parse_quantity``.
@@ -21,7 +21,7 @@ from hypothesis import strategies as st
 from numpy.testing import assert_allclose
 
 from compromise.errors import ExpressionError
-from compromise.expr import (
+from compromise.expressions import (
     MAX_LENGTH,
     PROPERTY_DIMENSIONS,
     PROPERTY_NAMES,

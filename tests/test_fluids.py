@@ -1,4 +1,4 @@
-"""Validation tests of compromise.fluids against published values and reference libraries.
+"""Validation tests of compromise.physics.fluids against published values and reference libraries.
 
 Each check names its source. Oracles: the ``iapws`` package (IAPWS-95, IAPWS 2008, IAPWS
 R1-76), ``gsw`` (TEOS-10) and CoolProp evaluated at inputs the module does not use. Tables of
@@ -17,7 +17,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from compromise.errors import FluidRangeError, UnknownFluidError
-from compromise.fluids import (
+from compromise.physics.fluids import (
     ATMOSPHERE,
     FluidTable,
     catalogue,
@@ -421,7 +421,10 @@ def test_catalogue_and_to_dict() -> None:
 
 def test_import_does_not_load_coolprop_or_scipy() -> None:
     root = Path(__file__).resolve().parents[1]
-    code = "import compromise.fluids, sys; print('CoolProp' in sys.modules, 'scipy' in sys.modules)"
+    code = (
+        "import compromise.physics.fluids, sys; "
+        "print('CoolProp' in sys.modules, 'scipy' in sys.modules)"
+    )
     out = subprocess.run(
         [sys.executable, "-c", code], cwd=root, capture_output=True, text=True, check=True
     )

@@ -1,4 +1,4 @@
-"""Tests of the group catalogue and of Buckingham pi analysis (compromise.groups).
+"""Tests of the group catalogue and of Buckingham pi analysis (compromise.physics.groups).
 
 Oracles: pint (dimension vectors of SI units, through ``compromise.units.parse_quantity``), the
 ``fluids`` library (Bell, C., fluids.core: Froude, Reynolds, Weber, Mach, Euler, Strouhal,
@@ -17,8 +17,8 @@ import pytest
 from numpy.testing import assert_allclose
 
 from compromise.errors import CompromiseError
-from compromise.expr import dimension, evaluate, names, parse, power_product
-from compromise.groups import (
+from compromise.expressions import dimension, evaluate, names, parse, power_product
+from compromise.physics.groups import (
     BUILTIN_GROUPS,
     CONVENTIONAL_DIMENSIONS,
     DerivedGroup,

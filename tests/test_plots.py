@@ -1,5 +1,5 @@
-"""Tests of the trade-off figures (compromise.plots) and the files the commands write
-(compromise.tradeoff_report).
+"""Tests of the trade-off figures (compromise.presentation.plots) and the files the commands write
+(compromise.presentation.explore_tables).
 
 The figures are checked as matplotlib objects, not only as files: axis labels carry their units
 in brackets (the project's style notes, "Units"), every fluid and marker has a legend entry, the
@@ -18,11 +18,12 @@ from typing import Any
 import numpy as np
 import pytest
 
-from compromise.case import Case, load_case
-from compromise.designmap import DesignMap, design_map
-from compromise.plots import front_figure, map_figure, save_figure, sensitivity_figure
-from compromise.sensitivity import Sensitivity, weight_sensitivity
-from compromise.tradeoff_report import (
+from compromise.casefile.load import load_case
+from compromise.casefile.model import Case
+from compromise.explore.designmap import DesignMap, design_map
+from compromise.explore.sensitivity import Sensitivity, weight_sensitivity
+from compromise.explore.tradeoffs import Front, trace_front
+from compromise.presentation.explore_tables import (
     format_front,
     format_map,
     format_sensitivity,
@@ -30,7 +31,7 @@ from compromise.tradeoff_report import (
     write_map,
     write_sensitivity,
 )
-from compromise.tradeoffs import Front, trace_front
+from compromise.presentation.plots import front_figure, map_figure, save_figure, sensitivity_figure
 
 ROOT = Path(__file__).resolve().parent.parent
 

@@ -21,8 +21,8 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from compromise.case import case_from_dict
-from compromise.design import scale_table
+from compromise.casefile.load import case_from_dict
+from compromise.solving.design import scale_table
 
 
 def _river(quantities: dict, **model) -> object:

@@ -1,12 +1,15 @@
-"""Tests of the compromise solver (compromise.solver, compromise.nonlinear, compromise.diagnose).
+"""Tests of the compromise solver (compromise.solving.optimum, compromise.solving.nonlinear,
+compromise.solving.diagnose).
 
 Oracles, all outside the solver:
 
 * a dense brute force over (fluid, temperature, ln X, ln Y, ln V) that evaluates every group
-  from its expression (``compromise.expr.evaluate`` on numpy arrays, with the model quantities
+  from its expression (``compromise.expressions.evaluate`` on numpy arrays, with the model
+  quantities
   scaled by the rules of the case-file contract), refined by ``scipy.optimize.minimize`` with
   SLSQP (Kraft, D. (1988). A software package for sequential quadratic programming.
-  DFVLR-FB 88-28) on the objective and limit margins of ``compromise.design.evaluate_design``,
+  DFVLR-FB 88-28) on the objective and limit margins of
+  ``compromise.solving.design.evaluate_design``,
   which computes them directly from the expressions and never sees the solver's matrices;
 * closed-form Froude scale laws: velocity and time as L_r^1/2, discharge as L_r^5/2
   (Chanson, H. (1999). The Hydraulics of Open Channel Flow, ch. 14; from memory), with the
@@ -34,11 +37,13 @@ import numpy as np
 import pytest
 from numpy.testing import assert_allclose
 
-from compromise import expr as ex
-from compromise.case import Case, case_from_dict, load_case
-from compromise.design import Design, Evaluation, evaluate_design
-from compromise.fluids import get_fluid
-from compromise.solver import Solution, solve
+from compromise import expressions as ex
+from compromise.casefile.load import case_from_dict, load_case
+from compromise.casefile.model import Case
+from compromise.physics.fluids import get_fluid
+from compromise.review.answer import solve
+from compromise.solving.design import Design, Evaluation, evaluate_design
+from compromise.solving.result import Solution
 
 ROOT = Path(__file__).resolve().parent.parent
 DATA = Path(__file__).resolve().parent / "data"
@@ -612,18 +617,18 @@ def test_nonlinear_group_takes_fallback_common_practice(
     name: str, monkeypatch: pytest.MonkeyPatch
 ) -> None:
     """A sum or a log in a group is not a power product: the nonlinear fallback answers."""
-    import compromise.nonlinear
+    import compromise.solving.nonlinear
 
     case = case_named(name)
     assert any(g.power is None for g in case.groups.values())
     calls: list[str] = []
-    original = compromise.nonlinear.solve_nonlinear
+    original = compromise.solving.optimum.solve_nonlinear
 
     def spy(*args: Any, **kwargs: Any) -> Solution:
         calls.append(name)
         return original(*args, **kwargs)
 
-    monkeypatch.setattr(compromise.nonlinear, "solve_nonlinear", spy)
+    monkeypatch.setattr(compromise.solving.optimum, "solve_nonlinear", spy)
     sol = solve(case, alternatives=False)
     assert calls == [name]
     assert_allclose(sol.objective, solved(name).objective, rtol=1e-9)

@@ -10,9 +10,9 @@ import numpy as np
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from compromise.case import case_from_dict
-from compromise.design import Design, evaluate_design
-from compromise.solver import solve
+from compromise.casefile.load import case_from_dict
+from compromise.review.answer import solve
+from compromise.solving.design import Design, evaluate_design
 
 SETTINGS = settings(
     max_examples=25,

@@ -8,14 +8,16 @@ Oracles, all outside the code under test:
 * on the bundled river case, a reference front from scipy's SLSQP (Kraft, D. (1988). A software
   package for sequential quadratic programming. DFVLR-FB 88-28), a general nonlinear solver that
   shares nothing with the enumerated active sets, and the designs checked with
-  ``compromise.design.evaluate_design``, which computes groups and limits from the expressions;
+  ``compromise.solving.design.evaluate_design``, which computes groups and limits from the
+  expressions;
 * GD+ as defined by Ishibuchi, H., Masuda, H., Tanigaki, Y., Nojima, Y. (2015). Modified
   distance calculation in generational distance and inverted generational distance. EMO 2015,
   LNCS 9019, 110-125 (from memory), and the hypervolume (Zitzler, E., Thiele, L. (1999). IEEE
   Trans. Evol. Comput. 3(4), 257-271; from memory), both checked on hand-computed sets;
 * the knee as the point farthest from the chord through the extremes (Das, I. (1999).
   Structural Optimization 18, 107-115; from memory);
-* the solver itself (``compromise.solver.solve``) on re-weighted cases, as a cross-check of the
+* the solver itself (``compromise.solving.optimum.solve``) on re-weighted cases, as a cross-check
+of the
   batched weight sensitivity (a different code path: one solve per case).
 
 The hand-derived case
@@ -51,15 +53,22 @@ import pytest
 from numpy.testing import assert_allclose
 from typer.testing import CliRunner
 
-from compromise.case import Case, case_from_dict, load_case
+from compromise.casefile.load import case_from_dict, load_case
+from compromise.casefile.model import Case
 from compromise.cli import app
-from compromise.design import Design, evaluate_design
-from compromise.designmap import default_axes, design_map
 from compromise.errors import CaseError
-from compromise.pareto import gd_plus, gd_plus_polyline, hypervolume, knee_index, nondominated
-from compromise.sensitivity import weight_sensitivity
-from compromise.solver import solve
-from compromise.tradeoffs import Front, trace_front
+from compromise.explore.designmap import default_axes, design_map
+from compromise.explore.pareto import (
+    gd_plus,
+    gd_plus_polyline,
+    hypervolume,
+    knee_index,
+    nondominated,
+)
+from compromise.explore.sensitivity import weight_sensitivity
+from compromise.explore.tradeoffs import Front, trace_front
+from compromise.review.answer import solve
+from compromise.solving.design import Design, evaluate_design
 
 ROOT = Path(__file__).resolve().parent.parent
 RIVER = ROOT / "cases" / "river_bend.toml"
@@ -193,7 +202,7 @@ def _slsqp_reference(case: Case, eps: np.ndarray) -> np.ndarray:
     """Minimise the total subject to model discharge <= eps with SLSQP, over (x, z, T)."""
     from scipy.optimize import minimize
 
-    from compromise.axes import axes_for, state_spaces
+    from compromise.explore.axes import axes_for, state_spaces
 
     problem, axes = axes_for(case, ["total", "discharge"])
     fs = state_spaces(case, problem, axes)[0]

@@ -26,9 +26,9 @@ import math
 import pytest
 from numpy.testing import assert_allclose
 
-from compromise.case import case_from_dict
-from compromise.design import scale_table
-from compromise.solver import solve
+from compromise.casefile.load import case_from_dict
+from compromise.review.answer import solve
+from compromise.solving.design import scale_table
 
 FT = 0.3048
 

@@ -1,0 +1,146 @@
+"""Pareto dominance, the knee of a front, and two front metrics (GD+ and hypervolume).
+
+Every axis is minimised. Pure numpy; used by :mod:`compromise.explore.tradeoffs`, the tests and the
+benchmarks.
+
+References
+----------
+Das, I. (1999). On characterizing the "knee" of the Pareto curve based on normal-boundary
+intersection. Structural Optimization 18, 107-115, from memory.
+Ishibuchi, H., Masuda, H., Tanigaki, Y., Nojima, Y. (2015). Modified distance calculation in
+generational distance and inverted generational distance. EMO 2015, LNCS 9019, 110-125, from
+memory.
+Zitzler, E., Thiele, L. (1999). Multiobjective evolutionary algorithms: a comparative case study
+and the strength Pareto approach. IEEE Trans. Evolutionary Computation 3(4), 257-271
+(hypervolume), from memory.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+TOL = 1e-9  # relative tolerance of dominance and of duplicate points
+
+
+def nondominated(values: np.ndarray, tol: float = TOL) -> np.ndarray:
+    """Indices of the points not dominated by another (minimisation), duplicates removed.
+
+    A point dominates another when it is no worse on every axis and better on one, with a
+    relative tolerance ``tol``.
+    """
+    v = np.asarray(values, dtype=float)
+    n = v.shape[0]
+    if n == 0:
+        return np.zeros(0, dtype=int)
+    t = tol * (1.0 + np.abs(v))
+    le = np.all(v[:, None, :] <= v[None, :, :] + t[None, :, :], axis=2)  # j no worse than i
+    lt = np.any(v[:, None, :] < v[None, :, :] - t[None, :, :], axis=2)
+    dominated = np.any(le & lt, axis=0)
+    same = le & le.T
+    first = np.argmax(same, axis=0)  # the first copy of each point
+    keep = ~dominated & (first == np.arange(n))
+    return np.flatnonzero(keep)
+
+
+def knee_index(values: np.ndarray) -> int:
+    """The knee of a front: the point farthest from the line (two axes) or plane (three axes)
+    through the front's extreme points, toward the ideal point, in axes normalised to [0, 1]
+    over the front (Das 1999). ``-1`` for an empty front.
+
+    Examples
+    --------
+    >>> knee_index(np.array([[0.0, 10.0], [1.0, 2.0], [5.0, 1.0], [10.0, 0.0]]))
+    1
+    """
+    v = np.asarray(values, dtype=float)
+    if v.shape[0] == 0:
+        return -1
+    if v.shape[0] < 3:
+        return 0
+    lo, span = v.min(axis=0), np.ptp(v, axis=0)
+    u = np.where(span > 0, (v - lo) / np.where(span > 0, span, 1.0), 0.0)
+    k = u.shape[1]
+    ext = np.array([u[np.lexsort((u.sum(axis=1), u[:, j]))[0]] for j in range(k)])
+    normal = np.ones(k)
+    if np.linalg.matrix_rank(ext) == k:
+        normal = np.linalg.solve(ext, np.ones(k))
+    offset = float(np.mean(ext @ normal))
+    if np.all(normal <= 0) or not np.all(np.isfinite(normal)):
+        normal, offset = np.ones(k), float(np.mean(ext.sum(axis=1)))
+    dist = (offset - u @ normal) / np.linalg.norm(normal)
+    return int(np.argmax(dist))
+
+
+def gd_plus(points: np.ndarray, reference: np.ndarray) -> float:
+    """Generational distance plus (Ishibuchi et al. 2015) of ``points`` to ``reference``.
+
+    The mean over the points of ``min_z ||max(a - z, 0)||``: the distance that counts only
+    where a point is worse than the reference. Both arrays are (n, axes), in the same units.
+    """
+    a = np.asarray(points, dtype=float)
+    z = np.asarray(reference, dtype=float)
+    out = np.empty(a.shape[0])
+    for i in range(0, a.shape[0], 256):
+        d = np.maximum(a[i : i + 256, None, :] - z[None], 0.0)
+        out[i : i + 256] = np.sqrt(np.min(np.sum(d * d, axis=2), axis=1))
+    return float(np.mean(out)) if out.size else math.nan
+
+
+def hypervolume(points: np.ndarray, reference: np.ndarray) -> float:
+    """Volume dominated by ``points`` and bounded by the ``reference`` point (two or three
+    axes, minimisation), by sweeping the last axis.
+
+    Examples
+    --------
+    >>> hypervolume(np.array([[1.0, 2.0], [2.0, 1.0]]), np.array([3.0, 3.0]))
+    3.0
+    """
+    v = np.asarray(points, dtype=float)
+    ref = np.asarray(reference, dtype=float)
+    v = v[np.all(v < ref, axis=1)]
+    if v.shape[0] == 0:
+        return 0.0
+    if v.shape[1] == 2:
+        v = v[np.argsort(v[:, 0], kind="stable")]
+        best, area = ref[1], 0.0
+        for x, y in v:
+            if y < best:
+                area += (ref[0] - x) * (best - y)
+                best = y
+        return float(area)
+    order = np.argsort(v[:, -1], kind="stable")
+    v = v[order]
+    total = 0.0
+    for i in range(v.shape[0]):
+        top = v[i + 1, -1] if i + 1 < v.shape[0] else ref[-1]
+        total += (top - v[i, -1]) * hypervolume(v[: i + 1, :-1], ref[:-1])
+    return float(total)
+
+
+def gd_plus_polyline(points: np.ndarray, reference: np.ndarray) -> float:
+    """GD+ of two-axis ``points`` to the piecewise-linear curve through ``reference``.
+
+    A dense reference front sampled at finitely many points makes GD+ at least the sampling gap
+    for a point between two samples; between the samples of a convex front the chord lies on
+    the dominated side, so measuring to the curve itself removes that artefact. For every
+    segment, ``||max(a - z(t), 0)||^2`` is convex and piecewise quadratic in ``t``: its minimum
+    is at an end, where a coordinate of ``z(t)`` crosses ``a``, or at the projection of ``a``.
+    """
+    a = np.asarray(points, dtype=float)
+    z = np.asarray(reference, dtype=float)
+    z = z[np.argsort(z[:, 0], kind="stable")]
+    P, D = z[:-1], np.diff(z, axis=0)  # segments P + t D
+    out = np.empty(a.shape[0])
+    for i, pt in enumerate(a):
+        cands = [np.zeros(len(P)), np.ones(len(P))]
+        with np.errstate(divide="ignore", invalid="ignore"):
+            for k in range(2):
+                cands.append((pt[k] - P[:, k]) / D[:, k])
+            cands.append(np.sum((pt - P) * D, axis=1) / np.sum(D * D, axis=1))
+        t = np.clip(np.nan_to_num(np.array(cands), nan=0.0), 0.0, 1.0)  # (5, segments)
+        zt = P[None] + t[..., None] * D[None]
+        d = np.maximum(pt - zt, 0.0)
+        out[i] = math.sqrt(float(np.min(np.sum(d * d, axis=2))))
+    return float(np.mean(out)) if out.size else math.nan

@@ -1,0 +1,478 @@
+"""Weight sensitivity: would the decision change if the groups' weights were different?
+
+Every weight is multiplied by its own factor drawn log-uniformly from ``[1/spread, spread]``
+(numpy's PCG64 generator, seeded, so a run is reproducible). For every sample the exact optimum
+is found twice over: restricted to each candidate design (a model fluid at a preferred ratio, or
+each fluid alone when the case lists no preferred ratio), to count how often each candidate is
+the best; and unrestricted, to give the range of every decision variable.
+
+A sample changes only the weights, so only the Hessian of the convex subproblems
+(:mod:`compromise.solving.problem`) changes; the candidate active sets do not. The KKT systems of
+every
+sample and active set are inverted in one batch, and every subproblem of a sample is then a
+matrix product, as in :mod:`compromise.solving.qp`. Temperature (and a gas's pressure) is searched
+by the
+grid and zoom of :func:`compromise.explore.envelope.lower_envelope`.
+"""
+
+from __future__ import annotations
+
+import itertools
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from compromise.casefile.model import Case
+from compromise.errors import CaseError
+from compromise.explore.envelope import StateSpace, lower_envelope
+from compromise.solving.grid import REGULARISATION, FluidStates
+from compromise.solving.problem import Problem, build_problem
+from compromise.solving.qp import FEASIBILITY_TOL
+
+CHUNK = 250  # samples per batch
+N_TEMPERATURES = 12
+ZOOM_ROUNDS = 3
+TIE_ABS = 1e-6  # [-] objectives closer than this are equal: a 0.1 % mismatch, below measurement
+VARIABLES = (
+    ("horizontal_ratio", "-"),
+    ("vertical_ratio", "-"),
+    ("distortion", "-"),
+    ("velocity_ratio", "-"),
+    ("temperature", "degC"),
+)
+
+
+class WeightedQP:
+    """The convex subproblems of a problem for many weight vectors at once.
+
+    Parameters
+    ----------
+    problem : Problem
+    extra_E : (k, 3) array, optional
+        Extra equality rows (a fixed horizontal ratio).
+    """
+
+    def __init__(self, problem: Problem, extra_E: np.ndarray | None = None) -> None:
+        self.problem = problem
+        self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
+        E = np.vstack([problem.E, self.extra])
+        G = problem.G
+        n, m, q = 3, G.shape[0], E.shape[0]
+        keep: list[int] = []
+        for j in range(q):
+            if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
+                keep.append(j)
+        self.E, self.keep, self.m, self.q = E, keep, m, q
+        self.groups: list[tuple[np.ndarray, np.ndarray]] = []  # (combos (c, k), C (c, ne+k, 3))
+        for k in range(min(n - len(keep), m) + 1):
+            combos, Cs = [], []
+            for combo in itertools.combinations(range(m), k):
+                C = np.vstack([E[keep], G[list(combo)]])
+                if C.shape[0] and np.linalg.svd(C, compute_uv=False)[-1] <= 1e-10 * max(
+                    1.0, float(np.abs(C).max())
+                ):
+                    continue
+                combos.append(combo)
+                Cs.append(C)
+            if combos:
+                self.groups.append(
+                    (
+                        np.array(combos, dtype=int).reshape(len(combos), k),
+                        np.array(Cs).reshape(len(combos), len(keep) + k, n),
+                    )
+                )
+        m_ = problem.case.model
+        x0 = math.log(m_.horizontal_ratio[1])
+        z0 = x0 + math.log(m_.distortion[0])
+        self.y0 = np.array([x0, z0, 0.5 * z0])
+
+    def prepare(self, W: np.ndarray) -> tuple[np.ndarray, ...]:
+        """Per-sample maps from the right-hand side ``[-f, e, h]`` to the candidates' points
+        and row values, the Hessians (S, 3, 3) and the regularisations (S,)."""
+        A = self.problem.A
+        S, m, q = W.shape[0], self.m, self.q
+        H = 2.0 * np.einsum("ki,sk,kj->sij", A, W, A)
+        reg = REGULARISATION * np.maximum(1.0, np.trace(H, axis1=1, axis2=2) / 3.0)
+        H = H + 2.0 * reg[:, None, None] * np.eye(3)
+        r = 3 + q + m
+        maps = []
+        for combos, C in self.groups:
+            c, nc = C.shape[0], C.shape[1]
+            K = np.zeros((S, c, 3 + nc, 3 + nc))
+            K[:, :, :3, :3] = H[:, None]
+            K[:, :, :3, 3:] = C.transpose(0, 2, 1)[None]
+            K[:, :, 3:, :3] = C[None]
+            Ki = np.linalg.inv(K)[:, :, :3, :]
+            M = np.zeros((S, c, 3, r))
+            M[..., :3] = Ki[..., :3]
+            for i, j in enumerate(self.keep):
+                M[..., 3 + j] = Ki[..., 3 + i]
+            rows = np.arange(c)
+            for i in range(combos.shape[1]):
+                # advanced indices around a slice come first: (c, S, 3)
+                M[:, rows, :, 3 + q + combos[:, i]] = Ki[:, :, :, 3 + len(self.keep) + i].transpose(
+                    1, 0, 2
+                )
+            maps.append(M)
+        M = np.concatenate(maps, axis=1)  # (S, c, 3, r)
+        GM = np.einsum("ma,scar->scmr", self.problem.G, M)
+        EM = np.einsum("qa,scar->scqr", self.E, M) if len(self.keep) < q else M[:, :, :0]
+        c = M.shape[1]
+        return (M.reshape(S, c * 3, r), GM.reshape(S, c * m, r), EM.reshape(S, -1, r), H, reg)
+
+    def solve(
+        self,
+        W: np.ndarray,
+        prep: tuple[np.ndarray, ...],
+        p: np.ndarray,
+        extra_e: np.ndarray | None = None,
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Optimal ``y`` (S, R, 3) and weighted mismatch (S, R) for weights ``W`` (S, K) and
+        property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible."""
+        pr = self.problem
+        YM, GM, EM, H, reg = prep
+        S, R = p.shape[0], p.shape[1]
+        c = YM.shape[1] // 3
+        r = p @ pr.B.T  # (S, R, K)
+        f = 2.0 * ((r * W[:, None, :]) @ pr.A) - 2.0 * reg[:, None, None] * self.y0
+        h = pr.h0 + p @ pr.P.T  # (S, R, m)
+        e = pr.e0 + p @ pr.Q.T
+        if self.extra.shape[0]:
+            e = np.concatenate([e, np.broadcast_to(extra_e, (S, R, self.extra.shape[0]))], axis=2)
+        rhs = np.concatenate([-f, e, h], axis=2).transpose(0, 2, 1)  # (S, r, R)
+        Y = np.matmul(YM, rhs).reshape(S, c, 3, R)
+        ok = np.ones((S, c, R), dtype=bool)
+        if self.m:
+            GY = np.matmul(GM, rhs).reshape(S, c, self.m, R)
+            ht = h.transpose(0, 2, 1)[:, None]
+            ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=2)
+        if len(self.keep) < self.q:
+            EY = np.matmul(EM, rhs).reshape(S, c, self.q, R)
+            et = e.transpose(0, 2, 1)[:, None]
+            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=2)
+        ft = f.transpose(0, 2, 1)[:, None]  # (S, 1, 3, R)
+        val = np.zeros((S, c, R))
+        for a in range(3):
+            Hy = sum(H[:, a, b][:, None, None] * Y[:, :, b] for b in range(3))
+            val += Y[:, :, a] * (0.5 * Hy + ft[:, :, a])
+        val = np.where(ok, val, np.inf)
+        best = np.argmin(val, axis=1)  # (S, R)
+        y = np.take_along_axis(Y, best[:, None, None, :], axis=1)[:, 0].transpose(0, 2, 1)
+        feasible = np.isfinite(np.take_along_axis(val, best[:, None], axis=1)[:, 0])
+        res = y @ pr.A.T + r
+        J = np.where(feasible, np.sum(W[:, None, :] * res**2, axis=2), np.inf)
+        return y, J
+
+
+@dataclass(frozen=True)
+class Candidate:
+    """A candidate design and how often it is the best.
+
+    Attributes
+    ----------
+    fluid : str
+    ratio : float or None
+        The preferred horizontal ratio [-] (None: free).
+    label : str
+    wins : int
+        Samples in which it is the best candidate.
+    share : float
+        ``wins / samples`` [-].
+    nominal_objective : float
+        Its weighted mismatch at the case's own weights [-] (inf when infeasible).
+    """
+
+    fluid: str
+    ratio: float | None
+    label: str
+    wins: int
+    share: float
+    nominal_objective: float
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        obj = self.nominal_objective
+        return {
+            "fluid": self.fluid,
+            "ratio": self.ratio,
+            "label": self.label,
+            "wins": self.wins,
+            "share": self.share,
+            "nominal_objective": obj if math.isfinite(obj) else None,
+        }
+
+
+@dataclass(frozen=True)
+class VariableRange:
+    """The spread of one decision variable of the optimum over the samples (ratios [-],
+    temperature [degC])."""
+
+    name: str
+    unit: str
+    nominal: float
+    minimum: float
+    p05: float
+    median: float
+    p95: float
+    maximum: float
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        return {
+            "unit": self.unit,
+            "nominal": self.nominal,
+            "min": self.minimum,
+            "p05": self.p05,
+            "median": self.median,
+            "p95": self.p95,
+            "max": self.maximum,
+        }
+
+
+@dataclass(frozen=True)
+class Sensitivity:
+    """The result of :func:`weight_sensitivity`.
+
+    Attributes
+    ----------
+    spread, samples, seed :
+        As asked.
+    groups : tuple of str
+        The weighted groups whose weights vary.
+    candidates : tuple of Candidate
+    nominal : int
+        Index of the best candidate at the case's own weights (-1: none feasible).
+    ranges : tuple of VariableRange
+        Of the unrestricted optimum.
+    fluid_shares : dict
+        How often each fluid is the unrestricted optimum's [-].
+    factors : numpy.ndarray
+        (samples, groups) the weight factors drawn.
+    winners : numpy.ndarray
+        (samples,) index of the best candidate in each sample (-1: none).
+    optima : numpy.ndarray
+        (samples, len(ranges)) the unrestricted optimum's decision variables, in the order
+        and units of ``ranges``.
+    """
+
+    case: Case = field(repr=False)
+    spread: float
+    samples: int
+    seed: int
+    groups: tuple[str, ...]
+    candidates: tuple[Candidate, ...]
+    nominal: int
+    ranges: tuple[VariableRange, ...]
+    fluid_shares: dict[str, float]
+    factors: np.ndarray = field(repr=False)
+    winners: np.ndarray = field(repr=False)
+    optima: np.ndarray = field(repr=False)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data (ratios model/prototype, temperatures in degC)."""
+        return {
+            "title": self.case.title,
+            "spread": self.spread,
+            "samples": self.samples,
+            "seed": self.seed,
+            "groups": list(self.groups),
+            "candidates": [c.to_dict() for c in self.candidates],
+            "nominal": self.candidates[self.nominal].label if self.nominal >= 0 else None,
+            "ranges": {r.name: r.to_dict() for r in self.ranges},
+            "fluid_shares": dict(self.fluid_shares),
+        }
+
+
+def weight_sensitivity(
+    case: Case, *, spread: float = 10.0, samples: int = 2000, seed: int = 0
+) -> Sensitivity:
+    """How often each candidate design is the optimum when the weights vary.
+
+    Parameters
+    ----------
+    case : Case
+    spread : float
+        Each weight is multiplied by a factor log-uniform in ``[1/spread, spread]`` (>= 1).
+    samples : int
+        Number of weight samples.
+    seed : int
+        Seed of the random generator (the same seed gives the same result).
+
+    Returns
+    -------
+    Sensitivity
+    """
+    if not (math.isfinite(spread) and spread >= 1):
+        raise CaseError(f"expected a spread >= 1, got {spread:g}", key="--spread")
+    if samples < 1:
+        raise CaseError(f"expected at least one sample, got {samples}", key="--samples")
+    problem = build_problem(case)
+    if problem.nonlinear_groups:
+        raise CaseError(
+            f"group '{problem.nonlinear_groups[0]}' is not a power product; the "
+            "sensitivity needs every group to be one",
+            file=case.path,
+            key=f"groups.{problem.nonlinear_groups[0]}",
+        )
+    K = problem.A.shape[0]
+    rng = np.random.default_rng(seed)
+    factors = np.exp(rng.uniform(-math.log(spread), math.log(spread), size=(samples, K)))
+    spaces = [StateSpace(FluidStates(case, f, problem.used_properties)) for f in case.model.fluids]
+    ratios = list(case.model.preferred_ratios) or [None]
+    free = WeightedQP(problem)
+    fixed = WeightedQP(problem, np.array([[1.0, 0.0, 0.0]])) if ratios[0] is not None else None
+    all_f = np.vstack([np.ones((1, K)), factors])  # row 0: the nominal weights
+    wins_obj, opt_y, opt_T, opt_fluid = [], [], [], []
+    for a in range(0, all_f.shape[0], CHUNK):
+        W = problem.W * all_f[a : a + CHUNK]
+        J = _restricted(free, fixed, W, spaces, ratios)
+        y, T, P, fl = _unrestricted(free, W, spaces)
+        wins_obj.append(J), opt_y.append(y), opt_T.append(np.column_stack([T, P]))
+        opt_fluid.append(fl)
+    J = np.vstack(wins_obj)  # (1 + samples, candidates)
+    winners = _winners(J)
+    y, TP, fl = np.vstack(opt_y), np.vstack(opt_T), np.concatenate(opt_fluid)
+    labels = _labels(case, ratios)
+    n_c = J.shape[1]
+    counts = np.bincount(winners[1:][winners[1:] >= 0], minlength=n_c)
+    cands = tuple(
+        Candidate(
+            case.model.fluids[c // len(ratios)],
+            ratios[c % len(ratios)],
+            labels[c],
+            int(counts[c]),
+            float(counts[c] / samples),
+            float(J[0, c]),
+        )
+        for c in range(n_c)
+    )
+    ranges, optima = _ranges(y, TP, fl, any(sp.variable_pressure for sp in spaces))
+    shares = {f: float(np.mean(fl[1:] == i)) for i, f in enumerate(case.model.fluids)}
+    return Sensitivity(
+        case,
+        float(spread),
+        int(samples),
+        int(seed),
+        problem.objective_groups,
+        cands,
+        int(winners[0]),
+        ranges,
+        shares,
+        factors,
+        winners[1:],
+        optima,
+    )
+
+
+def _labels(case: Case, ratios: list[float | None]) -> list[str]:
+    from compromise.units import format_ratio
+
+    return [f if r is None else f"{f} {format_ratio(r)}" for f in case.model.fluids for r in ratios]
+
+
+def _winners(J: np.ndarray) -> np.ndarray:
+    """Best candidate per row; among equal objectives the one listed first."""
+    low = np.min(J, axis=1, keepdims=True)
+    tied = J <= low + TIE_ABS + 1e-9 * np.abs(low)
+    out = np.argmax(tied, axis=1)
+    return np.where(np.isfinite(low[:, 0]), out, -1)
+
+
+def _blocks(items: np.ndarray, n: int) -> tuple[np.ndarray, int]:
+    """Samples of a batch of items (sample-major) and the rows per sample."""
+    s = items // n
+    u = np.unique(s)
+    return u, items.size // u.size
+
+
+def _restricted(
+    free: WeightedQP,
+    fixed: WeightedQP | None,
+    W: np.ndarray,
+    spaces: list[StateSpace],
+    ratios: list[float | None],
+) -> np.ndarray:
+    """Weighted mismatch (S, fluids x ratios) of each candidate's best design."""
+    qp = free if fixed is None else fixed
+    prep = qp.prepare(W)
+    n_c = len(spaces) * len(ratios)
+    lr = np.array([0.0 if r is None else math.log(r) for r in ratios])
+
+    def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
+        u, R = _blocks(items, n_c)
+        ex = lr[(items % n_c) % len(ratios)].reshape(u.size, R, 1) if fixed else None
+        sub = prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
+        return qp.solve(W[u], sub, p.reshape(u.size, R, -1), ex)[1].ravel()
+
+    fluid = np.tile(np.repeat(np.arange(len(spaces)), len(ratios)), W.shape[0])
+    _, _, J = lower_envelope(
+        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=ZOOM_ROUNDS
+    )
+    return J.reshape(W.shape[0], n_c)
+
+
+def _unrestricted(
+    qp: WeightedQP, W: np.ndarray, spaces: list[StateSpace]
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The optimum of each sample: ``y`` (S, 3), temperature (S,) [K], pressure (S,) [Pa]
+    and fluid index (S,)."""
+    prep = qp.prepare(W)
+    F = len(spaces)
+
+    def sub(u: np.ndarray) -> tuple[np.ndarray, ...]:
+        return prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
+
+    def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
+        u, R = _blocks(items, F)
+        return qp.solve(W[u], sub(u), p.reshape(u.size, R, -1))[1].ravel()
+
+    fluid = np.tile(np.arange(F), W.shape[0])
+    T, lnp, J = lower_envelope(
+        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=ZOOM_ROUNDS
+    )
+    J = J.reshape(W.shape[0], F)
+    best = _winners(J)
+    S = W.shape[0]
+    y = np.full((S, 3), np.nan)
+    Tb = np.full(S, np.nan)
+    Pb = np.full(S, np.nan)
+    for k, sp in enumerate(spaces):
+        s = np.flatnonzero(best == k)
+        if s.size == 0:
+            continue
+        i = s * F + k
+        p = sp.p(T[i], lnp[i])
+        y[s] = qp.solve(W[s], sub(s), p[:, None, :])[0][:, 0]
+        Tb[s] = T[i]
+        Pb[s] = np.exp(lnp[i])
+    return y, Tb, Pb, best
+
+
+def _ranges(
+    y: np.ndarray, TP: np.ndarray, fluid: np.ndarray, gas: bool
+) -> tuple[tuple[VariableRange, ...], np.ndarray]:
+    ok = fluid >= 0
+    vals = {
+        "horizontal_ratio": np.exp(y[:, 0]),
+        "vertical_ratio": np.exp(y[:, 1]),
+        "distortion": np.exp(y[:, 1] - y[:, 0]),
+        "velocity_ratio": np.exp(y[:, 2]),
+        "temperature": TP[:, 0] - 273.15,
+        "pressure": TP[:, 1],
+    }
+    out = []
+    names = VARIABLES + ((("pressure", "Pa"),) if gas else ())
+    for name, unit in names:
+        v = vals[name]
+        s = v[1:][ok[1:]]
+        if s.size == 0:
+            out.append(VariableRange(name, unit, *([math.nan] * 6)))
+            continue
+        q = np.quantile(s, [0.0, 0.05, 0.5, 0.95, 1.0])
+        out.append(
+            VariableRange(name, unit, float(v[0]) if ok[0] else math.nan, *(float(x) for x in q))
+        )
+    optima = np.column_stack([vals[n] for n, _ in names])[1:]
+    return tuple(out), np.where(ok[1:, None], optima, np.nan)

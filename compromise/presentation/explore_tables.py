@@ -1,0 +1,302 @@
+"""Text tables and CSV files of the trade-off tools, and the files each command writes.
+
+Presentation only: everything here comes from the results of :mod:`compromise.explore.tradeoffs`,
+:mod:`compromise.explore.designmap` and :mod:`compromise.explore.sensitivity`. CSV numbers are
+written with
+``repr`` (shortest exact form), so the files are byte-for-byte reproducible; the figures come
+from :mod:`compromise.presentation.plots`.
+"""
+
+from __future__ import annotations
+
+import csv
+import math
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from compromise.presentation.tables import fmt, table
+from compromise.units import format_ratio
+
+if TYPE_CHECKING:
+    from compromise.explore.designmap import DesignMap
+    from compromise.explore.sensitivity import Sensitivity
+    from compromise.explore.tradeoffs import Front
+
+
+def _save(figure: str, result: Any, stem: Path) -> list[Path]:
+    from compromise.presentation import plots
+
+    return plots.save_figure(getattr(plots, figure)(result), stem)
+
+
+def _short(design: Any) -> str:
+    from compromise.presentation.plots import short_label
+
+    return short_label(design)
+
+
+def write_front(front: Front, folder: str | Path) -> list[Path]:
+    """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
+    folder = Path(folder)
+    folder.mkdir(parents=True, exist_ok=True)
+    stem = folder / ("tradeoff_" + "_".join(front.names))
+    path = stem.with_suffix(".csv")
+    cols = [f"{a.name} [{a.unit}]" for a in front.axes]
+    head = [
+        "role",
+        *cols,
+        "fluid",
+        "temperature [degC]",
+        "pressure [Pa]",
+        "horizontal_ratio",
+        "vertical_ratio",
+        "velocity_ratio",
+        "distortion",
+    ]
+    with path.open("w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow(head)
+        rows = [("knee" if i == front.knee else "front", pt) for i, pt in enumerate(front.points)]
+        if front.chosen is not None:
+            rows.append(("chosen", front.chosen))
+        for role, pt in rows:
+            d = pt.design
+            w.writerow(
+                [
+                    role,
+                    *(repr(x) for x in pt.values),
+                    d.fluid,
+                    repr(d.temperature - 273.15),
+                    repr(d.pressure),
+                    repr(d.horizontal_ratio),
+                    repr(d.vertical_ratio),
+                    repr(d.velocity_ratio),
+                    repr(d.distortion),
+                ]
+            )
+    return [path, *_save("front_figure", front, stem)]
+
+
+def format_front(front: Front, rows: int = 12) -> str:
+    """A readable summary: every few points of the front, the knee and the solver's design."""
+    out = [front.case.title, ""]
+    names = " vs ".join(f"{a.label} [{a.unit}]" for a in front.axes)
+    if not front.points:
+        return "\n".join([*out, f"Pareto front of {names}: no feasible design."])
+    out.append(
+        f"Pareto front of {names}: {len(front.points)} points (exact, epsilon-constraint;"
+        f" {front.primary} minimised)."
+    )
+    for a in front.axes:
+        if a.lifted and a.case_bound is not None:
+            out.append(
+                f"The case's limit {a.name} <= {fmt(a.case_bound)} {a.unit} is lifted: "
+                "the front shows what relaxing it buys."
+            )
+    out.append("")
+    n = len(front.points)
+    step = max(1, math.ceil(n / rows))
+    show = sorted({*range(0, n, step), n - 1, front.knee})
+    head = [
+        "#",
+        *(f"{a.name} [{a.unit}]" for a in front.axes),
+        "fluid",
+        "T [degC]",
+        "X",
+        "distortion",
+        "V",
+        "",
+    ]
+    body = []
+    for i in show:
+        pt = front.points[i]
+        d = pt.design
+        body.append(
+            [
+                str(i),
+                *pt.values,
+                d.fluid,
+                f"{d.temperature - 273.15:.1f}",
+                format_ratio(d.horizontal_ratio),
+                d.distortion,
+                format_ratio(d.velocity_ratio),
+                "knee" if i == front.knee else "",
+            ]
+        )
+    if front.chosen is not None:
+        d = front.chosen.design
+        body.append(
+            [
+                "solver",
+                *front.chosen.values,
+                d.fluid,
+                f"{d.temperature - 273.15:.1f}",
+                format_ratio(d.horizontal_ratio),
+                d.distortion,
+                format_ratio(d.velocity_ratio),
+                "chosen",
+            ]
+        )
+    out.append(table(head, body))
+    if n == 1:
+        out.append("\nThe front is a single point: one design is best on every axis.")
+    return "\n".join(out)
+
+
+def write_map(dmap: DesignMap, folder: str | Path) -> list[Path]:
+    """``map_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
+    folder = Path(folder)
+    folder.mkdir(parents=True, exist_ok=True)
+    stem = folder / f"map_{dmap.axes[0]}_{dmap.axes[1]}"
+    path = stem.with_suffix(".csv")
+    X, Y = dmap.grid(0), dmap.grid(1)
+    with path.open("w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow(
+            [
+                f"{dmap.axes[0]} [{dmap.units[0]}]",
+                f"{dmap.axes[1]} [{dmap.units[1]}]",
+                "objective [-]",
+                "temperature [degC]",
+                *(f"{b.key} log-violation [-]" for b in dmap.boundaries),
+            ]
+        )
+        for r in range(len(Y)):
+            for c in range(len(X)):
+                o = dmap.objective[r, c]
+                w.writerow(
+                    [
+                        repr(float(X[c])),
+                        repr(float(Y[r])),
+                        repr(float(o)) if math.isfinite(o) else "",
+                        repr(float(dmap.temperature[r, c] - 273.15)),
+                        *(repr(float(b.violation[r, c])) for b in dmap.boundaries),
+                    ]
+                )
+    return [path, *_save("map_figure", dmap, stem)]
+
+
+def format_map(dmap: DesignMap) -> str:
+    """The window's extent, the limits that bound it and the preferred ratios."""
+    out = [
+        dmap.case.title,
+        "",
+        f"Design-space map over {dmap.axes[0]} and {dmap.axes[1]}, model fluid {dmap.fluid}:"
+        f" {100 * dmap.feasible_share:.1f} % of the map is feasible.",
+    ]
+    if dmap.optimum is not None:
+        out.append(
+            f"Optimum: {_short(dmap.optimum)} (weighted mismatch {fmt(dmap.optimum_objective)})."
+        )
+    out.append("")
+    rows = [
+        [b.label, b.key, f"{100 * b.excluded:.1f} %", "yes" if b.binding else ""]
+        for b in dmap.boundaries
+    ]
+    out.append(table(["limit", "key", "excludes", "binds"], rows))
+    if dmap.preferred:
+        out.append("")
+        rows = [
+            [r, _short(d) if d else "infeasible", o if math.isfinite(o) else None]
+            for r, d, o in dmap.preferred
+        ]
+        out.append(table(["preferred ratio", "best design there", "mismatch"], rows))
+    return "\n".join(out)
+
+
+def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
+    """``sensitivity.csv`` (candidates), ``sensitivity_samples.csv`` and the bar chart."""
+    folder = Path(folder)
+    folder.mkdir(parents=True, exist_ok=True)
+    stem = folder / "sensitivity"
+    path = stem.with_suffix(".csv")
+    with path.open("w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow(["candidate", "fluid", "ratio", "wins", "share", "nominal_objective"])
+        for c in sens.candidates:
+            w.writerow(
+                [
+                    c.label,
+                    c.fluid,
+                    "" if c.ratio is None else repr(c.ratio),
+                    c.wins,
+                    repr(c.share),
+                    repr(c.nominal_objective),
+                ]
+            )
+    samples = folder / "sensitivity_samples.csv"
+    with samples.open("w", newline="", encoding="utf-8") as fh:
+        w = csv.writer(fh, lineterminator="\n")
+        w.writerow(
+            [
+                "sample",
+                *(f"factor {g}" for g in sens.groups),
+                "best candidate",
+                *(f"optimum {r.name} [{r.unit}]" for r in sens.ranges),
+            ]
+        )
+        for i in range(sens.samples):
+            win = sens.winners[i]
+            w.writerow(
+                [
+                    i,
+                    *(repr(float(x)) for x in sens.factors[i]),
+                    sens.candidates[win].label if win >= 0 else "",
+                    *(repr(float(x)) for x in sens.optima[i]),
+                ]
+            )
+    return [path, samples, *_save("sensitivity_figure", sens, stem)]
+
+
+def _mismatch(v: float) -> Any:
+    """A candidate's mismatch; below the sensitivity's tie tolerance it is shown as nil."""
+    from compromise.explore.sensitivity import TIE_ABS
+
+    if not math.isfinite(v):
+        return "infeasible"
+    return f"< {TIE_ABS:g}" if v < TIE_ABS else v
+
+
+def format_sensitivity(sens: Sensitivity) -> str:
+    """The candidates' shares and the ranges of the optimum's decision variables."""
+    out = [
+        sens.case.title,
+        "",
+        f"Weights of {', '.join(sens.groups)} each multiplied by a factor log-uniform in "
+        f"[1/{sens.spread:g}, {sens.spread:g}]; {sens.samples} samples, seed {sens.seed}.",
+        "",
+    ]
+    rows = [
+        [
+            c.label,
+            c.wins,
+            f"{100 * c.share:.1f} %",
+            _mismatch(c.nominal_objective),
+            "best at the case's weights" if i == sens.nominal else "",
+        ]
+        for i, c in enumerate(sens.candidates)
+    ]
+    out.append(table(["candidate", "wins", "share", "mismatch at case weights", ""], rows))
+    out.append("")
+    out.append("The unconstrained optimum over the samples:")
+
+    def show(r: Any, v: float) -> str:
+        if not math.isfinite(v):
+            return "-"
+        return (
+            format_ratio(v)
+            if r.name in ("horizontal_ratio", "vertical_ratio", "velocity_ratio")
+            else fmt(v)
+        )
+
+    rows = [
+        [
+            f"{r.name} [{r.unit}]",
+            *(show(r, v) for v in (r.nominal, r.minimum, r.p05, r.median, r.p95, r.maximum)),
+        ]
+        for r in sens.ranges
+    ]
+    out.append(table(["variable", "case weights", "min", "5 %", "median", "95 %", "max"], rows))
+    shares = ", ".join(f"{f} {100 * s:.1f} %" for f, s in sens.fluid_shares.items())
+    out.append(f"\nModel fluid of the optimum: {shares}.")
+    return "\n".join(out)

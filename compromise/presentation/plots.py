@@ -1,0 +1,602 @@
+"""Figures, CSV files and text tables of the trade-off tools (presentation only).
+
+Matplotlib is imported inside the functions (Agg canvas, no pyplot state), so importing this
+module is cheap. Every figure function returns a :class:`matplotlib.figure.Figure`;
+:func:`save_figure` writes it as PNG and SVG. The SVG is byte-for-byte reproducible: a fixed
+hash salt for element ids, text kept as text (``svg.fonttype = 'none'``) and no date in the
+metadata.
+"""
+
+from __future__ import annotations
+
+import math
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from compromise.presentation.tables import fmt
+from compromise.units import format_ratio
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+    from compromise.explore.designmap import DesignMap
+    from compromise.explore.sensitivity import Sensitivity
+    from compromise.explore.tradeoffs import Front
+    from compromise.solving.design import Design
+
+COLOURS = (
+    "#1f77b4",
+    "#d62728",
+    "#2ca02c",
+    "#9467bd",
+    "#ff7f0e",
+    "#8c564b",
+    "#e377c2",
+    "#17becf",
+    "#7f7f7f",
+    "#bcbd22",
+)  # matplotlib's tab10, reordered for contrast
+LINE_STYLES = ("-", "--", "-.", ":")
+
+
+def _figure(width: float, height: float) -> Figure:
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+    from matplotlib.figure import Figure
+
+    fig = Figure(figsize=(width, height), layout="constrained")
+    FigureCanvasAgg(fig)
+    return fig
+
+
+def save_figure(fig: Figure, stem: str | Path) -> list[Path]:
+    """Write ``stem.png`` (150 dpi) and ``stem.svg``; return the paths."""
+    import matplotlib
+
+    stem = Path(stem)
+    stem.parent.mkdir(parents=True, exist_ok=True)
+    out = [stem.with_suffix(".png"), stem.with_suffix(".svg")]
+    with matplotlib.rc_context({"svg.hashsalt": "compromise", "svg.fonttype": "none"}):
+        fig.savefig(out[0], dpi=150, metadata={"Software": None})
+        fig.savefig(out[1], metadata={"Date": None, "Creator": None})
+    return out
+
+
+def _fluid_colours(fluids: tuple[str, ...] | list[str]) -> dict[str, str]:
+    return {f: COLOURS[i % len(COLOURS)] for i, f in enumerate(fluids)}
+
+
+def short_label(design: Design) -> str:
+    """``water 30.0 degC, 1:94, distortion 4.38``."""
+    ratios = format_ratio(design.horizontal_ratio)
+    if abs(design.distortion - 1.0) > 1e-6:
+        ratios += f", distortion {design.distortion:.2f}"
+    return f"{design.fluid} {design.temperature - 273.15:.1f} degC, {ratios}"
+
+
+# --------------------------------------------------------------------------------------------
+# fronts
+
+
+def front_figure(front: Front) -> Figure:
+    """The Pareto front: points coloured by fluid, the knee and the solver's design labelled,
+    units on the axes; with three axes, the three pairwise projections."""
+    k = len(front.axes)
+    pairs = [(0, 1)] if k == 2 else [(0, 1), (0, 2), (1, 2)]
+    fig = _figure(7.5 if k == 2 else 15.0, 5.6 if k == 2 else 5.0)
+    axs = fig.subplots(1, len(pairs), squeeze=False)[0]
+    colours = _fluid_colours(front.case.model.fluids)
+    v = front.values
+    fluids = [pt.design.fluid for pt in front.points]
+    for n, (i, j) in enumerate(pairs):
+        ax = axs[n]
+        if k == 2 and len(front.fluid_fronts) > 1:
+            for f, fv in front.fluid_fronts.items():
+                o = np.argsort(fv[:, i])
+                ax.plot(
+                    fv[o, i],
+                    fv[o, j],
+                    color=colours[f],
+                    lw=0.9,
+                    alpha=0.45,
+                    zorder=1,
+                    label=f"{f}: its own front",
+                )
+        if k == 2 and v.shape[0] > 1:
+            ax.plot(v[:, i], v[:, j], color="0.55", lw=1.0, zorder=2)
+        for f in front.case.model.fluids:
+            mine = np.array([x == f for x in fluids], dtype=bool)
+            if mine.any():
+                ax.scatter(
+                    v[mine, i],
+                    v[mine, j],
+                    s=16,
+                    color=colours[f],
+                    zorder=3,
+                    label=f"{f} ({int(mine.sum())} points)",
+                )
+        if front.knee >= 0:
+            kv = v[front.knee]
+            ax.scatter(
+                [kv[i]],
+                [kv[j]],
+                s=170,
+                facecolors="none",
+                edgecolors="black",
+                lw=1.6,
+                zorder=4,
+                label="knee",
+            )
+            if n == 0:
+                _callout(
+                    ax,
+                    f"knee: {short_label(front.points[front.knee].design)}",
+                    (kv[i], kv[j]),
+                    0.80,
+                    "white",
+                )
+        if front.chosen is not None:
+            cv = front.chosen.values
+            ax.scatter(
+                [cv[i]],
+                [cv[j]],
+                marker="*",
+                s=260,
+                color="#ffd400",
+                edgecolors="black",
+                lw=0.9,
+                zorder=5,
+                label="solver's design",
+            )
+            if n == 0:
+                _callout(
+                    ax,
+                    f"chosen: {short_label(front.chosen.design)}",
+                    (cv[i], cv[j]),
+                    0.70,
+                    "#fff7cc",
+                )
+        for idx, line in ((i, ax.axvline), (j, ax.axhline)):
+            a = front.axes[idx]
+            if a.lifted and a.case_bound is not None:
+                line(
+                    a.case_bound,
+                    color="0.35",
+                    ls="--",
+                    lw=1.0,
+                    zorder=1,
+                    label=f"case limit: {a.name} <= {fmt(a.case_bound)} {a.unit}",
+                )
+        ax.set_xlabel(f"{front.axes[i].label} [{front.axes[i].unit}]")
+        ax.set_ylabel(f"{front.axes[j].label} [{front.axes[j].unit}]")
+        ax.grid(True, color="0.9", lw=0.6)
+        ax.set_axisbelow(True)
+        if n == 0 and ax.get_legend_handles_labels()[0]:
+            ax.legend(loc="lower left", fontsize=8.5, framealpha=0.9)
+    if len(front.points) == 1:
+        axs[0].text(
+            0.5,
+            0.04,
+            "the front is a single point: one design is best on every axis",
+            transform=axs[0].transAxes,
+            ha="center",
+            fontsize=9,
+            color="0.3",
+        )
+    elif not front.points:
+        axs[0].text(0.5, 0.5, "no feasible design", transform=axs[0].transAxes, ha="center")
+    names = " vs ".join(a.name for a in front.axes)
+    fig.suptitle(
+        f"{front.case.title}\nPareto front: {names} ({len(front.points)} points)", fontsize=11
+    )
+    return fig
+
+
+# --------------------------------------------------------------------------------------------
+# the design-space map
+
+
+def _nice_ratios(lo: float, hi: float) -> list[float]:
+    out = []
+    for e in range(-6, 4):
+        for m in (1, 2, 3, 5):
+            r = 1.0 / (m * 10.0**e)
+            if lo * (1 - 1e-9) <= r <= hi * (1 + 1e-9):
+                out.append(r)
+    return sorted(out)
+
+
+def _ratio_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
+    from matplotlib.ticker import FixedLocator, FuncFormatter, NullLocator
+
+    axis = ax.xaxis if which == "x" else ax.yaxis
+    (ax.set_xscale if which == "x" else ax.set_yscale)("log")
+    ticks = _nice_ratios(lo, hi)
+    if len(ticks) < 3:
+        ticks = sorted({lo, hi, *ticks})
+    axis.set_major_locator(FixedLocator(ticks))
+    axis.set_minor_locator(NullLocator())
+    axis.set_major_formatter(FuncFormatter(lambda v, _: format_ratio(v)))
+
+
+def _distortion_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
+    from matplotlib.ticker import FixedLocator, FuncFormatter, NullLocator
+
+    axis = ax.xaxis if which == "x" else ax.yaxis
+    (ax.set_xscale if which == "x" else ax.set_yscale)("log")
+    ticks = [t for t in (1, 1.5, 2, 3, 4, 5, 7, 10, 15, 20, 30, 50) if lo - 1e-9 <= t <= hi + 1e-9]
+    axis.set_major_locator(FixedLocator(ticks or [lo, hi]))
+    axis.set_minor_locator(NullLocator())
+    axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+
+
+def _unit_coords(dmap: DesignMap, x: np.ndarray, y: np.ndarray) -> np.ndarray:
+    """Points of the map in [0, 1]^2 (log axes for ratios), for placing labels."""
+    out = []
+    for which, v in ((0, x), (1, y)):
+        g = dmap.grid(which)
+        if dmap.axes[which] == "temperature":
+            out.append((v - g[0]) / (g[-1] - g[0]))
+        else:
+            out.append(np.log(v / g[0]) / np.log(g[-1] / g[0]))
+    return np.column_stack(out)
+
+
+def _fill_nan(a: np.ndarray, passes: int = 4) -> np.ndarray:
+    """``a`` with nan cells next to finite ones filled by their neighbours' mean (so a filled
+    contour reaches the window's smooth edge before it is clipped)."""
+    a = a.copy()
+    for _ in range(passes):
+        nan = ~np.isfinite(a)
+        if not nan.any():
+            break
+        p = np.pad(a, 1, constant_values=np.nan)
+        nb = np.stack([p[:-2, 1:-1], p[2:, 1:-1], p[1:-1, :-2], p[1:-1, 2:]])
+        cnt = np.sum(np.isfinite(nb), axis=0)
+        mean = np.nansum(np.where(np.isfinite(nb), nb, 0.0), axis=0) / np.maximum(cnt, 1)
+        a = np.where(nan & (cnt > 0), mean, a)
+    return a
+
+
+def map_figure(dmap: DesignMap) -> Figure:
+    """The feasible window (each boundary labelled with its limit, ticks on the infeasible side),
+    filled contours of the weighted mismatch, the optimum and the preferred ratios."""
+    from matplotlib import patheffects
+    from matplotlib.colors import LogNorm
+    from matplotlib.lines import Line2D
+    from matplotlib.patches import Patch, PathPatch, Rectangle
+    from matplotlib.path import Path as MPath
+    from matplotlib.ticker import FuncFormatter
+
+    fig = _figure(9.4, 7.4)
+    ax = fig.subplots()
+    X, Y = dmap.grid(0), dmap.grid(1)
+    gx, gy = np.meshgrid(X, Y)
+    for which, axis_name, g in (("x", dmap.axes[0], X), ("y", dmap.axes[1], Y)):
+        if axis_name in ("horizontal_ratio", "vertical_ratio", "velocity_ratio"):
+            _ratio_axis(ax, which, float(g[0]), float(g[-1]))
+        elif axis_name == "distortion":
+            _distortion_axis(ax, which, float(g[0]), float(g[-1]))
+    ax.set_xlim(X[0], X[-1])
+    ax.set_ylim(Y[0], Y[-1])
+    ax.add_patch(
+        Rectangle(
+            (0, 0),
+            1,
+            1,
+            transform=ax.transAxes,
+            facecolor="0.96",
+            edgecolor="0.78",
+            hatch="///",
+            lw=0,
+            zorder=0,
+        )
+    )
+    obj = dmap.objective
+    feasible = np.isfinite(obj)
+    handles: list[Any] = []
+    if feasible.any():
+        # the window with smooth edges: every limit's least violation, and the cells the
+        # full subproblem found infeasible
+        fields = [np.where(np.isfinite(b.violation), b.violation, 1e3) for b in dmap.boundaries]
+        worst = np.max(fields, axis=0) if fields else np.full(obj.shape, -1.0)
+        worst = np.where(feasible, worst, np.maximum(worst, 1e-3))
+        edge = ax.contourf(gx, gy, worst, levels=[-1e9, 0.0], colors="none")
+        paths = [p for p in edge.get_paths() if len(p.vertices)]
+        clip = (
+            PathPatch(
+                MPath.make_compound_path(*paths),
+                transform=ax.transData,
+                facecolor="none",
+                edgecolor="none",
+            )
+            if paths
+            else None
+        )
+        edge.remove()
+        lo, hi = float(np.min(obj[feasible])), float(np.max(obj[feasible]))
+        filled = _fill_nan(obj)
+        if hi - lo <= 1e-9 * max(1.0, abs(hi)):  # the same mismatch everywhere in the window
+            lo, hi = lo - 0.5, lo + 0.5
+            levels = np.array([lo, hi])
+            cf = ax.contourf(gx, gy, filled, levels=levels, colors=["#7fc97f"], zorder=1)
+        elif hi > 0 and hi / max(lo, 1e-300) > 10:
+            lo = max(lo, 1e-4 * hi)  # below this, a mismatch is nil for the eye (and noise)
+            levels = np.geomspace(lo, hi * (1 + 1e-9), 14)
+            cf = ax.contourf(
+                gx,
+                gy,
+                filled,
+                levels=levels,
+                norm=LogNorm(lo, hi),
+                cmap="viridis",
+                extend="both",
+                zorder=1,
+            )
+        else:
+            levels = np.linspace(lo, hi + max(1e-12, 1e-9 * abs(hi)), 14)
+            cf = ax.contourf(gx, gy, filled, levels=levels, cmap="viridis", extend="both", zorder=1)
+        if clip is not None:
+            ax.add_patch(clip)
+            cf.set_clip_path(clip)
+        if len(levels) > 2:
+            cb = fig.colorbar(cf, ax=ax, shrink=0.9)
+            cb.set_label("weighted mismatch [-] (best design in each cell)")
+            cb.ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: fmt(v, 3)))
+        else:
+            handles.append(
+                Patch(
+                    facecolor="#7fc97f",
+                    edgecolor="none",
+                    label=f"feasible; weighted mismatch {fmt(lo + 0.5)} everywhere",
+                )
+            )
+    placed: list[np.ndarray] = []
+    if dmap.optimum is not None:
+        c = _unit_coords(dmap, *(np.array([v]) for v in dmap.coordinates(dmap.optimum)))[0]
+        placed.append(np.array([c[0] - 0.03, c[0] + 0.03, c[1] - 0.04, c[1] + 0.04]))
+    window = _unit_coords(dmap, gx[feasible], gy[feasible]) if feasible.any() else None
+    colours = (
+        "#d62728",
+        "#1f77b4",
+        "#9467bd",
+        "#8c564b",
+        "#e377c2",
+        "#ff7f0e",
+        "#17becf",
+        "#000000",
+        "#bcbd22",
+        "#7f7f7f",
+    )
+    # one colour per limit; the same limit in a looser condition (key "...@condition") is a
+    # thin dotted line of the same colour, without ticks or an on-line label
+    base_keys = list(dict.fromkeys(b.key.split("@")[0] for b in dmap.boundaries))
+    for b in dmap.boundaries:
+        g = b.violation
+        if not (np.any(g > 0) and np.any(g <= 0)):
+            continue
+        base = b.key.split("@")[0]
+        n = base_keys.index(base)
+        colour = colours[n % len(colours)]
+        looser = "@" in b.key
+        style = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        cs = ax.contour(
+            gx,
+            gy,
+            np.where(np.isfinite(g), g, 1e3),
+            levels=[0.0],
+            colors=[colour],
+            linewidths=1.0 if looser else (2.2 if b.binding else 1.5),
+            linestyles=[style],
+            alpha=0.7 if looser else 1.0,
+            zorder=3,
+        )
+        segs = [sg for sg in cs.allsegs[0] if len(sg) > 1]
+        if not looser:
+            cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
+            if segs:
+                text = b.label + ("  (binds)" if b.binding else "")
+                placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
+        handles.append(
+            Line2D(
+                [],
+                [],
+                color=colour,
+                lw=1 if looser else 2,
+                ls=style,
+                label=b.label + ("  (binds at the optimum)" if b.binding else ""),
+            )
+        )
+    if dmap.optimum is not None:
+        ox, oy = dmap.coordinates(dmap.optimum)
+        ax.scatter(
+            [ox], [oy], marker="*", s=340, color="#ffd400", edgecolors="black", lw=1.0, zorder=6
+        )
+        handles.append(
+            Line2D(
+                [],
+                [],
+                marker="*",
+                ms=15,
+                color="#ffd400",
+                mec="black",
+                lw=0,
+                label=f"optimum: {short_label(dmap.optimum)}, "
+                f"mismatch {fmt(dmap.optimum_objective)}",
+            )
+        )
+    if dmap.axes[0] == "horizontal_ratio" and dmap.preferred:
+        for label, d, _ in dmap.preferred:
+            num, den = (float(v) for v in label.split(":"))
+            r = num / den
+            if not X[0] * (1 - 1e-9) <= r <= X[-1] * (1 + 1e-9):
+                continue
+            ax.axvline(r, color="0.25", lw=0.8, ls=(0, (2, 3)), zorder=2)
+            ax.text(
+                r,
+                1.01,
+                label,
+                transform=ax.get_xaxis_transform(),
+                ha="center",
+                va="bottom",
+                fontsize=8.5,
+                color="0.2",
+            )
+            if d is not None:
+                ax.scatter(
+                    [r],
+                    [dmap.coordinates(d)[1]],
+                    s=50,
+                    color="white",
+                    edgecolors="black",
+                    lw=1.0,
+                    zorder=6,
+                )
+        handles.append(
+            Line2D(
+                [],
+                [],
+                marker="o",
+                ms=7,
+                color="0.25",
+                mfc="white",
+                mec="black",
+                lw=0.8,
+                ls=(0, (2, 3)),
+                label="preferred ratio, and the best design there",
+            )
+        )
+    ax.set_xlabel(f"{dmap.labels[0]} [{dmap.units[0]}]")
+    ax.set_ylabel(f"{dmap.labels[1]} [{dmap.units[1]}]")
+    handles.append(
+        Patch(
+            facecolor="0.96",
+            edgecolor="0.7",
+            hatch="///",
+            label="outside the feasible window (ticks mark the infeasible side)",
+        )
+    )
+    fig.legend(handles=handles, loc="outside lower center", ncol=2, fontsize=8.3, frameon=False)
+    fig.suptitle(
+        f"{dmap.case.title}\ndesign-space map, model fluid {dmap.fluid} (the other "
+        "choices at their optimum in each cell)",
+        fontsize=11,
+    )
+    return fig
+
+
+def _label_line(
+    ax: Axes,
+    dmap: DesignMap,
+    pts: np.ndarray,
+    window: np.ndarray | None,
+    placed: list[np.ndarray],
+    text: str,
+    colour: str,
+) -> np.ndarray:
+    """Write ``text`` on a boundary: near the feasible window, on the side away from it, inside
+    the frame and clear of the labels already placed. Returns the label's box
+    ``(x0, x1, y0, y1)`` in unit coordinates."""
+    u0 = _unit_coords(dmap, pts[:, 0], pts[:, 1])
+    centre = window.mean(axis=0) if window is not None and window.size else np.full(2, 0.5)
+    away_x = np.where(u0[:, 0] >= centre[0], 1.0, -1.0)
+    away_y = np.where(u0[:, 1] >= centre[1], 1.0, -1.0)
+    # four placements per point; the one facing away from the window is preferred
+    u = np.tile(u0, (4, 1))
+    pts = np.tile(pts, (4, 1))
+    sx = np.concatenate([away_x, -away_x, away_x, -away_x])
+    sy = np.concatenate([away_y, away_y, -away_y, -away_y])
+    side = np.repeat([0.0, 0.4, 0.4, 0.6], len(u0))
+    w, h = 0.0098 * len(text) + 0.01, 0.045
+    x0 = np.where(sx > 0, u[:, 0] + 0.005, u[:, 0] - 0.005 - w)
+    y0 = np.where(sy > 0, u[:, 1] + 0.005, u[:, 1] - 0.005 - h)
+    boxes = np.column_stack([x0, x0 + w, y0, y0 + h])
+    score = side.copy()
+    if window is not None and window.size:
+        d2 = np.min(np.sum((u0[:, None, :] - window[None, ::7, :]) ** 2, axis=2), axis=1)
+        score += np.tile(np.sqrt(d2), 4)
+    out = np.maximum.reduce([-boxes[:, 0], boxes[:, 1] - 1.0, -boxes[:, 2], boxes[:, 3] - 1.0])
+    score += np.where(out > 0, 5.0 + out, 0.0)
+    for q in placed:
+        ox = np.minimum(boxes[:, 1], q[1]) - np.maximum(boxes[:, 0], q[0])
+        oy = np.minimum(boxes[:, 3], q[3]) - np.maximum(boxes[:, 2], q[2])
+        score += np.where((ox > 0) & (oy > 0), 3.0 + 10.0 * ox * oy, 0.0)
+    i = int(np.argmin(score))
+    ax.annotate(
+        text,
+        (pts[i, 0], pts[i, 1]),
+        xytext=(4 * sx[i], 4 * sy[i]),
+        textcoords="offset points",
+        ha="left" if sx[i] > 0 else "right",
+        va="bottom" if sy[i] > 0 else "top",
+        fontsize=8.5,
+        color=colour,
+        fontweight="bold",
+        zorder=8,
+        bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": colour, "alpha": 0.9},
+    )
+    return boxes[i]
+
+
+# --------------------------------------------------------------------------------------------
+# weight sensitivity
+
+
+def sensitivity_figure(sens: Sensitivity) -> Figure:
+    """Share of the samples in which each candidate design is the best, one bar each."""
+    n = len(sens.candidates)
+    fig = _figure(7.8, 1.6 + 0.42 * n)
+    ax = fig.subplots()
+    colours = _fluid_colours(sens.case.model.fluids)
+    ypos = np.arange(n)[::-1]
+    shares = [100 * c.share for c in sens.candidates]
+    bars = ax.barh(
+        ypos,
+        shares,
+        color=[colours[c.fluid] for c in sens.candidates],
+        edgecolor="black",
+        lw=0.6,
+        height=0.66,
+    )
+    if sens.nominal >= 0:
+        bars[sens.nominal].set_linewidth(2.2)
+        bars[sens.nominal].set_hatch("..")
+    for y, c, s in zip(ypos, sens.candidates, shares, strict=True):
+        note = "" if math.isfinite(c.nominal_objective) else "  (infeasible)"
+        tag = "  <- best at the case's weights" if c is sens.candidates[sens.nominal] else ""
+        ax.text(s + 1.0, y, f"{s:.1f} %{note}{tag}", va="center", fontsize=8.5)
+    ax.set_yticks(ypos, [c.label for c in sens.candidates])
+    ax.set_xlim(0, 130)
+    ax.set_xticks(range(0, 101, 20))
+    ax.set_xlabel("share of the samples in which it is the best design [%]")
+    ax.grid(True, axis="x", color="0.9", lw=0.6)
+    ax.set_axisbelow(True)
+    from matplotlib.patches import Patch
+
+    handles = [
+        Patch(facecolor=colours[f], edgecolor="black", label=f) for f in sens.case.model.fluids
+    ]
+    ax.legend(
+        handles=handles, loc="lower right", fontsize=8.5, title="model fluid", title_fontsize=8.5
+    )
+    fig.suptitle(
+        f"{sens.case.title}\nweights of {', '.join(sens.groups)} each x/÷ up to "
+        f"{sens.spread:g} (log-uniform), {sens.samples} samples, seed {sens.seed}",
+        fontsize=10.5,
+    )
+    return fig
+
+
+def _callout(ax: Any, text: str, xy: tuple[float, float], height: float, face: str) -> None:
+    """A boxed label at (0.55, ``height``) in axes fraction, with a line to the point ``xy``."""
+    ax.annotate(
+        text,
+        xy,
+        xytext=(0.55, height),
+        textcoords="axes fraction",
+        fontsize=8.5,
+        arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
+        bbox={"boxstyle": "round,pad=0.25", "fc": face, "ec": "0.6"},
+    )

@@ -1,0 +1,406 @@
+"""A model design (fluid, temperature, base ratios) and everything it implies for a case.
+
+:func:`evaluate_design` gives, per condition, the model value of every prototype quantity, every
+group's prototype and model values and mismatch, and every laboratory limit's margin.
+:func:`scale_table` builds a design from a length ratio and a velocity rule and adds the ratios of
+every derived kind of quantity (the classic table of scale ratios).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Any
+
+import numpy as np
+
+from compromise import expressions as ex
+from compromise.casefile.model import Case
+from compromise.errors import CaseError
+from compromise.physics.scaling import DERIVED_KINDS, N_DECISION
+from compromise.solving.problem import PROPERTY_NAMES, property_environment
+from compromise.units import format_ratio, to_celsius
+
+BINDING_TOL = 1e-6  # [-] fractional margin below which a limit counts as binding
+
+
+@dataclass(frozen=True)
+class Design:
+    """A model design. Ratios are model over prototype.
+
+    Attributes
+    ----------
+    fluid : str
+        Model fluid (catalogue name).
+    temperature : float
+        Model fluid temperature [K].
+    pressure : float
+        Model fluid pressure [Pa].
+    horizontal_ratio, vertical_ratio, velocity_ratio : float
+        Base ratios [-].
+    """
+
+    fluid: str
+    temperature: float
+    pressure: float
+    horizontal_ratio: float
+    vertical_ratio: float
+    velocity_ratio: float
+
+    @property
+    def distortion(self) -> float:
+        """Vertical ratio over horizontal ratio [-] (1 when undistorted)."""
+        return self.vertical_ratio / self.horizontal_ratio
+
+    @property
+    def logs(self) -> np.ndarray:
+        """Decision log-ratios ``(x, z, v)``."""
+        return np.log([self.horizontal_ratio, self.vertical_ratio, self.velocity_ratio])
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data: ratios, temperature in degC, pressure in Pa."""
+        return {
+            "fluid": self.fluid,
+            "temperature": to_celsius(self.temperature),
+            "pressure": self.pressure,
+            "horizontal_ratio": self.horizontal_ratio,
+            "vertical_ratio": self.vertical_ratio,
+            "velocity_ratio": self.velocity_ratio,
+            "distortion": self.distortion,
+        }
+
+    def label(self) -> str:
+        """Short text such as ``water 20.0 degC, 1:50 / 1:10``."""
+        ratios = format_ratio(self.horizontal_ratio)
+        if abs(self.distortion - 1) > 1e-9:
+            ratios += f" / {format_ratio(self.vertical_ratio)}"
+        return f"{self.fluid} {to_celsius(self.temperature):.1f} degC, {ratios}"
+
+
+@dataclass(frozen=True)
+class GroupValue:
+    """A group's value in prototype and model for one condition."""
+
+    prototype: float
+    model: float
+    mismatch: float  # ln(model / prototype)
+    weight: float
+    exact: bool = False
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data, with the mismatch also as a factor."""
+        return {
+            "prototype": self.prototype,
+            "model": self.model,
+            "mismatch": self.mismatch,
+            "factor": math.exp(self.mismatch),
+            "weight": self.weight,
+        }
+
+
+@dataclass(frozen=True)
+class QuantityValue:
+    """A quantity in prototype and model for one condition [SI]."""
+
+    prototype: float
+    model: float
+    ratio: float
+    unit: str
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        return {
+            "prototype": self.prototype,
+            "model": self.model,
+            "ratio": self.ratio,
+            "unit": self.unit,
+        }
+
+
+@dataclass(frozen=True)
+class LimitValue:
+    """A laboratory limit checked in one condition."""
+
+    quantity: str
+    kind: str
+    bound: float
+    model: float
+    margin: float  # fractional slack; negative when violated
+
+    @property
+    def binding(self) -> bool:
+        """Whether the limit holds with (almost) no slack."""
+        return abs(self.margin) <= BINDING_TOL
+
+    @property
+    def violated(self) -> bool:
+        """Whether the model value is on the wrong side of the bound."""
+        return self.margin < -BINDING_TOL
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data, as in the output contract."""
+        return {
+            "model": self.model,
+            "bound": self.bound,
+            "kind": self.kind,
+            "margin": self.margin,
+            "binding": self.binding,
+        }
+
+
+@dataclass(frozen=True)
+class ConditionResult:
+    """Groups, quantities and limits of a design in one prototype condition."""
+
+    name: str
+    weight: float
+    groups: dict[str, GroupValue]
+    quantities: dict[str, QuantityValue]
+    limits: dict[str, LimitValue]
+
+    @property
+    def objective(self) -> float:
+        """This condition's weighted sum of squared log-mismatches (exact groups excluded)."""
+        return sum(g.weight * g.mismatch**2 for g in self.groups.values() if not g.exact)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        return {
+            "weight": self.weight,
+            "groups": {k: v.to_dict() for k, v in self.groups.items()},
+            "quantities": {k: v.to_dict() for k, v in self.quantities.items()},
+            "limits": {k: v.to_dict() for k, v in self.limits.items()},
+        }
+
+
+@dataclass(frozen=True)
+class Evaluation:
+    """A design evaluated in every condition of a case."""
+
+    design: Design
+    conditions: tuple[ConditionResult, ...]
+    property_ratios: dict[str, float] = field(default_factory=dict)
+
+    @property
+    def objective(self) -> float:
+        """Sum over conditions of condition weight x weighted squared log-mismatches."""
+        return sum(c.weight * c.objective for c in self.conditions)
+
+    def worst_limits(self) -> dict[str, tuple[str | None, LimitValue]]:
+        """For each limit, the condition with the smallest margin and its value there.
+
+        The condition is None where every condition gives the same margin (a limit on a
+        quantity that no condition changes).
+        """
+        out: dict[str, tuple[str | None, LimitValue]] = {}
+        margins: dict[str, list[float]] = {}
+        for c in self.conditions:
+            for k, v in c.limits.items():
+                margins.setdefault(k, []).append(v.margin)
+                if k not in out or v.margin < out[k][1].margin:
+                    out[k] = (c.name, v)
+        for k, ms in margins.items():
+            if len(ms) > 1 and max(ms) - min(ms) <= 1e-12 * max(1.0, abs(min(ms))):
+                out[k] = (None, out[k][1])
+        return out
+
+    @property
+    def feasible(self) -> bool:
+        """Whether every limit holds in every condition."""
+        return not any(v.violated for _, v in self.worst_limits().values())
+
+
+def property_environments(
+    case: Case, fluid: str, temperature: float, pressure: float
+) -> tuple[dict[str, float], dict[str, float]]:
+    """Prototype and model fluid properties (``rho, mu, nu, sigma, c, g``) from the source
+    models (not the solver's splines)."""
+    from compromise.physics.fluids import get_fluid
+
+    proto = property_environment(get_fluid(case.fluid).properties(case.temperature, case.pressure))
+    model = property_environment(get_fluid(fluid).properties(temperature, pressure))
+    return proto, model
+
+
+def _log_ratios(model: dict[str, float], proto: dict[str, float]) -> np.ndarray:
+    return np.array(
+        [
+            math.log(model[n] / proto[n]) if model[n] > 0 and proto[n] > 0 else float("nan")
+            for n in PROPERTY_NAMES
+        ]
+    )
+
+
+def property_log_ratios(case: Case, fluid: str, temperature: float, pressure: float) -> np.ndarray:
+    """``ln(model / prototype)`` of rho, mu, nu, sigma, c, g for a model fluid state.
+
+    Uses the fluids' source models (not the solver's splines).
+    """
+    proto, model = property_environments(case, fluid, temperature, pressure)
+    return _log_ratios(model, proto)
+
+
+def evaluate_design(case: Case, design: Design) -> Evaluation:
+    """Evaluate a design in every condition of a case.
+
+    Model quantity values are ``prototype x ratio``; group model values are computed from the
+    model quantities and the model fluid's properties (so non-power-product groups are exact
+    too); limit margins are fractional slacks, negative where a limit is violated.
+    """
+    y = design.logs
+    proto_props, model_props = property_environments(
+        case, design.fluid, design.temperature, design.pressure
+    )
+    p = _log_ratios(model_props, proto_props)
+    results = []
+    for i, cond in enumerate(case.conditions):
+        vals = case.values(i)
+        quantities: dict[str, QuantityValue] = {}
+        for name, q in case.quantities.items():
+            lr = _log_ratio(q.scaling, y, p)
+            quantities[name] = QuantityValue(
+                vals[name], vals[name] * math.exp(lr), math.exp(lr), q.unit
+            )
+        penv = {**vals, **proto_props}
+        menv = {n: v.model for n, v in quantities.items()}
+        menv.update(model_props)
+        groups: dict[str, GroupValue] = {}
+        model_group: dict[str, float] = {}
+        for name, g in case.groups.items():
+            pv = float(ex.evaluate(g.expression, penv))
+            mv = float(ex.evaluate(g.expression, menv))
+            model_group[name] = mv
+            if g.threshold:
+                continue
+            mm = math.log(mv / pv) if pv > 0 and mv > 0 else float("nan")
+            groups[name] = GroupValue(pv, mv, mm, g.weight, g.exact)
+        limits: dict[str, LimitValue] = {}
+        for lim in case.limits:
+            mv = quantities[lim.quantity].model
+            margin = (
+                (lim.bound - mv) / lim.bound if lim.kind == "max" else (mv - lim.bound) / lim.bound
+            )
+            limits[f"{lim.quantity}.{lim.kind}"] = LimitValue(
+                lim.quantity, lim.kind, lim.bound, mv, margin
+            )
+        for name, g in case.groups.items():
+            gv = model_group[name]
+            if g.min is not None:
+                limits[f"{name}.min"] = LimitValue(name, "min", g.min, gv, (gv - g.min) / g.min)
+            if g.max is not None:
+                limits[f"{name}.max"] = LimitValue(name, "max", g.max, gv, (g.max - gv) / g.max)
+        results.append(ConditionResult(cond.name, cond.weight, groups, quantities, limits))
+    ratios = {n: math.exp(v) for n, v in zip(PROPERTY_NAMES, p, strict=True) if math.isfinite(v)}
+    return Evaluation(design, tuple(results), ratios)
+
+
+def _log_ratio(scaling: np.ndarray, y: np.ndarray, p: np.ndarray) -> float:
+    b = scaling[N_DECISION:]
+    used = b != 0
+    return float(scaling[:N_DECISION] @ y + (b[used] @ p[used] if used.any() else 0.0))
+
+
+@dataclass(frozen=True)
+class ScaleTable:
+    """Scale ratios of a design, with the case's quantities and groups."""
+
+    design: Design
+    ratios: dict[str, float]
+    evaluation: Evaluation
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data: ``ratios``, ``design``, ``quantities`` and ``groups`` (first condition),
+        and ``conditions`` when the case has several."""
+        first = self.evaluation.conditions[0]
+        out: dict[str, Any] = {
+            "design": self.design.to_dict(),
+            "ratios": dict(self.ratios),
+            "quantities": {k: v.to_dict() for k, v in first.quantities.items()},
+            "groups": {k: v.to_dict() for k, v in first.groups.items()},
+        }
+        if len(self.evaluation.conditions) > 1:
+            out["conditions"] = {c.name: c.to_dict() for c in self.evaluation.conditions}
+        return out
+
+
+def scale_table(
+    case: Case,
+    ratio: float,
+    *,
+    vertical: float | None = None,
+    velocity: str | float = "froude",
+    fluid: str | None = None,
+    temperature: float | None = None,
+    pressure: float | None = None,
+) -> ScaleTable:
+    """Scale ratios of every kind of quantity for a given length ratio and velocity rule.
+
+    Parameters
+    ----------
+    case : Case
+    ratio : float
+        Horizontal length ratio, model/prototype [-].
+    vertical : float, optional
+        Vertical length ratio [-]; defaults to ``ratio`` (undistorted).
+    velocity : str or float
+        ``"froude"``, ``"reynolds"`` or the name of any power-product group of the case (the
+        velocity ratio is chosen so that this group is kept exactly), or the velocity ratio.
+    fluid, temperature, pressure : optional
+        Model fluid and its state [K, Pa]; default the prototype's.
+
+    Examples
+    --------
+    The Froude ratios at 1:25 (Chanson 1999, ch. 14; Hughes 1993, ch. 2):
+
+    >>> from compromise.casefile.load import case_from_dict
+    >>> c = case_from_dict({"prototype": {"fluid": "water", "temperature": "20 degC",
+    ...     "quantities": {"depth": "2 m", "velocity": "1 m/s"}},
+    ...     "groups": {"froude": {}}, "model": {"horizontal_ratio": "1:25"}})
+    >>> t = scale_table(c, 1 / 25)
+    >>> round(1 / t.ratios["discharge"])
+    3125
+    """
+    from compromise.solving.problem import group_exponents
+
+    fluid = fluid or case.fluid
+    temperature = case.temperature if temperature is None else temperature
+    pressure = case.pressure if pressure is None else pressure
+    vertical = ratio if vertical is None else vertical
+    p = property_log_ratios(case, fluid, temperature, pressure)
+    x, z = math.log(ratio), math.log(vertical)
+    if isinstance(velocity, str):
+        key = velocity.lower()
+        if key not in case.groups:
+            from compromise.physics.groups import BUILTIN_GROUPS
+
+            if key not in BUILTIN_GROUPS:
+                raise CaseError(
+                    f"expected 'froude', 'reynolds', a group of the case or a ratio, "
+                    f"got {velocity!r}",
+                    key="--velocity",
+                )
+            raise CaseError(
+                f"the case has no group '{key}'; add it under [groups] to scale velocity by it",
+                file=case.path,
+                key="groups",
+            )
+        g = case.groups[key]
+        if g.power is None:
+            raise CaseError(
+                f"group '{key}' is not a power product; give a velocity ratio", key="--velocity"
+            )
+        s = group_exponents(case, g)
+        if abs(s[2]) < 1e-12:
+            raise CaseError(f"group '{key}' does not involve velocity", key="--velocity")
+        b = s[N_DECISION:]
+        used = b != 0
+        rest = s[0] * x + s[1] * z + (b[used] @ p[used] if used.any() else 0.0)
+        v = -rest / s[2]
+    else:
+        v = math.log(float(velocity))
+    design = Design(fluid, temperature, pressure, ratio, vertical, math.exp(v))
+    y = np.array([x, z, v])
+    ratios = {name: math.exp(_log_ratio(s, y, p)) for name, (s, _) in DERIVED_KINDS.items()}
+    ratios["density"] = math.exp(p[0])
+    ratios["kinematic_viscosity"] = math.exp(p[2])
+    return ScaleTable(design, ratios, evaluate_design(case, design))

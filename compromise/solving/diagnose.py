@@ -1,0 +1,186 @@
+"""Diagnosis of an infeasible case: which bounds conflict, and how far each must move.
+
+An infeasible case is an answer, not an error. The diagnosis finds, at the model fluid state
+closest to feasibility, an irreducible infeasible subset of the rows (deletion filter), then for
+each of its rows the bound that would make the whole case feasible if that bound alone moved
+(a small linear programme per fluid state, minimised over fluids and temperatures).
+
+References
+----------
+Chinneck, J. W., Dravnieks, E. W. (1991). Locating minimal infeasible constraint sets in linear
+programs. *ORSA Journal on Computing* 3(2), 157-168 (the deletion filter), from memory.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from compromise.solving.problem import Problem, Row
+
+if TYPE_CHECKING:
+    from compromise.solving.grid import FluidStates
+
+
+@dataclass(frozen=True)
+class Conflict:
+    """Why a case is infeasible: limits that cannot hold together and how far each must move.
+
+    Attributes
+    ----------
+    keys : tuple of str
+        Case-file keys of a smallest set of bounds that cannot hold together.
+    relaxation : dict
+        For each key, the bound that would make the case feasible on its own [SI]; ``None``
+        where relaxing that bound alone cannot help.
+    conditions : dict
+        For each key, the condition that makes it bind (or ``None``).
+    """
+
+    keys: tuple[str, ...]
+    relaxation: dict[str, float | None]
+    conditions: dict[str, str | None] = field(default_factory=dict)
+    units: dict[str, str] = field(default_factory=dict)
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data."""
+        return {
+            "conflict": list(self.keys),
+            "relaxation": dict(self.relaxation),
+            "conditions": dict(self.conditions),
+            "units": dict(self.units),
+        }
+
+
+def relaxed_bound(row: Row, shift: float) -> float:
+    """The user's bound after a right-hand-side shift ``shift`` of its row (log space)."""
+    return row.bound * math.exp(shift) if row.side == "max" else row.bound * math.exp(-shift)
+
+
+N_DIAGNOSIS_TEMPERATURES = 12
+TOL = 1e-9
+
+
+def _states(states: dict[str, FluidStates]) -> list[tuple[str, float, float, np.ndarray]]:
+    out = []
+    for name, fs in states.items():
+        lo, hi = fs.t_range
+        T = np.linspace(lo, hi, N_DIAGNOSIS_TEMPERATURES) if hi > lo else np.array([lo])
+        for P in fs.pressures():
+            for t, p in zip(T, fs.p(T, P), strict=True):
+                out.append((name, float(t), float(P), p))
+    return out
+
+
+def _feasible(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> bool:
+    from scipy.optimize import linprog
+
+    if G.shape[0] == 0 and E.shape[0] == 0:
+        return True
+    r = linprog(
+        np.zeros(3),
+        A_ub=G if G.size else None,
+        b_ub=h if G.size else None,
+        A_eq=E if E.size else None,
+        b_eq=e if E.size else None,
+        bounds=[(None, None)] * 3,
+        method="highs",
+    )
+    return r.status == 0
+
+
+def _violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> float:
+    """Least total violation (phase 1, elastic rows) in log space."""
+    from scipy.optimize import linprog
+
+    m, q = G.shape[0], E.shape[0]
+    n = 3 + m + 2 * q
+    c = np.r_[np.zeros(3), np.ones(m + 2 * q)]
+    A_ub = np.hstack([G, -np.eye(m), np.zeros((m, 2 * q))])
+    A_eq = np.hstack([E, np.zeros((q, m)), -np.eye(q), np.eye(q)]) if q else None
+    bounds = [(None, None)] * 3 + [(0, None)] * (n - 3)
+    r = linprog(
+        c, A_ub=A_ub, b_ub=h, A_eq=A_eq, b_eq=e if q else None, bounds=bounds, method="highs"
+    )
+    return float(r.fun) if r.status == 0 else math.inf
+
+
+def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
+    """Find the conflicting bounds of an infeasible problem and the relaxation of each.
+
+    Returns
+    -------
+    Conflict
+        ``keys`` lists the case-file keys of an irreducible conflicting set (inequality rows and
+        exact groups or fixed ratios); ``relaxation`` gives, for each inequality row, the bound
+        that alone would make the case feasible (``None`` where no such bound exists).
+    """
+    from scipy.optimize import linprog
+
+    G = problem.G
+    E = problem.E
+    m, q = G.shape[0], E.shape[0]
+    cands = _states(states)
+    rhs = [problem.rhs(p) for *_, p in cands]
+    viol = [_violation(G, h, E, e) for h, e in rhs]
+    k = int(np.argmin(viol))
+    h, e = rhs[k]
+    # deletion filter over inequality rows then equality rows
+    keep_i = list(range(m))
+    keep_e = list(range(q))
+    for i in range(m):
+        trial = [j for j in keep_i if j != i]
+        if not _feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
+            keep_i = trial
+    for i in range(q):
+        trial = [j for j in keep_e if j != i]
+        if not _feasible(G[keep_i], h[keep_i], E[trial], e[trial]):
+            keep_e = trial
+    keys: list[str] = []
+    relaxation: dict[str, float | None] = {}
+    conditions: dict[str, str | None] = {}
+    units: dict[str, str] = {}
+    for i in keep_i:
+        row: Row = problem.rows[i]
+        keys.append(row.key)
+        conditions[row.key] = row.condition
+        if row.kind == "limit":
+            units[row.key] = problem.case.quantities[row.name].unit
+        elif row.kind == "bound" and row.name != "distortion":
+            units[row.key] = "ratio"
+        else:
+            units[row.key] = "-"
+        others = [j for j in range(m) if j != i]
+        best = math.inf
+        for hh, ee in rhs:
+            r = linprog(
+                G[i],
+                A_ub=G[others] if others else None,
+                b_ub=hh[others] if others else None,
+                A_eq=E if q else None,
+                b_eq=ee if q else None,
+                bounds=[(None, None)] * 3,
+                method="highs",
+            )
+            if r.status == 0:
+                best = min(best, float(r.fun) - float(hh[i]))
+            elif r.status == 3:  # unbounded below: any bound works
+                best = min(best, 0.0)
+        relaxation[row.key] = (
+            relaxed_bound(row, max(best, 0.0) * (1 + 1e-9)) if math.isfinite(best) else None
+        )
+    eq_names = [*problem.exact_groups]
+    for j in keep_e:
+        name = eq_names[j] if j < len(eq_names) else f"equality {j}"
+        key = (
+            f"model.{name}"
+            if name in ("horizontal_ratio", "distortion", "velocity_ratio")
+            else f"groups.{name}.exact"
+        )
+        keys.append(key)
+        relaxation[key] = None
+        conditions[key] = None
+    return Conflict(tuple(keys), relaxation, conditions, units)

@@ -1,0 +1,334 @@
+"""The fluid x temperature grid: exact convex subproblems for batches of model fluid states.
+
+:class:`Engine` holds a problem's :class:`~compromise.solving.qp.SmallQP`; :class:`FluidStates`
+gives
+the property log-ratios of one model fluid over its temperature (and pressure) range;
+:func:`best_state` and :func:`best_states` find each fluid's optimal state by a grid, a zooming
+polish and a final re-solve with the fluids' source property models.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+
+import numpy as np
+
+from compromise.casefile.model import Case
+from compromise.errors import CaseError
+from compromise.solving.problem import PROPERTY_NAMES, Problem
+from compromise.solving.qp import QPBatch, SmallQP
+
+N_TEMPERATURES = 36
+N_PRESSURES = 7
+N_ZOOM = 33  # temperatures per polish round
+N_ZOOM_PRESSURE = 9  # pressures per polish round (source models, not splines)
+ZOOM_ROUNDS = 7  # 16-fold per round: ~1e-8 K from a ~1 K grid step
+REGULARISATION = 1e-10  # relative weight of the tie-break toward the largest, least distorted model
+
+
+# --------------------------------------------------------------------------------------------
+# the grid engine
+
+
+class Engine:
+    """Solves the convex subproblems of a problem for batches of fluid states.
+
+    Parameters
+    ----------
+    problem : Problem
+    extra_E, extra_e : optional
+        Extra equality rows ``extra_E . y = extra_e`` (used to fix a preferred ratio).
+    """
+
+    def __init__(self, problem: Problem, extra_E: np.ndarray | None = None) -> None:
+        self.problem = problem
+        A, W = problem.A, problem.W
+        H = 2.0 * (A.T * W) @ A
+        m = problem.case.model
+        scale = max(1.0, float(np.trace(H)) / 3.0)
+        self.eps = REGULARISATION * scale
+        # anchor of the tie-break: the largest model, the least distortion, Froude velocity
+        x0 = math.log(m.horizontal_ratio[1])
+        z0 = x0 + math.log(m.distortion[0])
+        self.y0 = np.array([x0, z0, 0.5 * z0])
+        self.H = H + 2.0 * self.eps * np.eye(3)
+        self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
+        E = np.vstack([problem.E, self.extra])
+        self.qp = SmallQP(self.H, problem.G, E)
+
+    def linear_terms(
+        self, p: np.ndarray, h_shift: np.ndarray | None = None, extra_e: np.ndarray | None = None
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """``f``, ``h``, ``e`` and the objective constant for property log-ratios ``p`` (N, 6)."""
+        pr = self.problem
+        p = np.atleast_2d(p)
+        Bp = p @ pr.B.T  # (N, k)
+        f = 2.0 * (Bp * pr.W) @ pr.A - 2.0 * self.eps * self.y0
+        const = np.sum(pr.W * Bp**2, axis=1) + self.eps * float(self.y0 @ self.y0)
+        h, e = pr.rhs(p)
+        if h_shift is not None:
+            h = h + h_shift
+        if self.extra.shape[0]:
+            ex_e = (
+                np.zeros((p.shape[0], self.extra.shape[0]))
+                if extra_e is None
+                else (np.broadcast_to(extra_e, (p.shape[0], self.extra.shape[0])))
+            )
+            e = np.hstack([e, ex_e])
+        return f, h, e, const
+
+    def solve(
+        self, p: np.ndarray, h_shift: np.ndarray | None = None, extra_e: np.ndarray | None = None
+    ) -> tuple[QPBatch, np.ndarray]:
+        """Solve for each row of ``p``; returns the batch and the true objectives (N,)."""
+        f, h, e, _ = self.linear_terms(p, h_shift, extra_e)
+        batch = self.qp.solve(f, h, e)
+        return batch, self.true_objective(batch.y, np.atleast_2d(p))
+
+    def true_objective(self, y: np.ndarray, p: np.ndarray) -> np.ndarray:
+        """Weighted sum of squared log-mismatches (without the tie-break term)."""
+        pr = self.problem
+        r = y @ pr.A.T + p @ pr.B.T
+        out = np.sum(pr.W * r**2, axis=1)
+        return np.where(np.all(np.isfinite(y), axis=1), out, np.inf)
+
+
+@dataclass(frozen=True)
+class State:
+    """A model fluid state and its optimal decision log-ratios."""
+
+    fluid: str
+    temperature: float
+    pressure: float
+    y: np.ndarray
+    objective: float
+
+
+def grid_points(lo: float, hi: float, n: int, log: bool = False) -> np.ndarray:
+    if hi <= lo:
+        return np.array([lo])
+    return np.geomspace(lo, hi, n) if log else np.linspace(lo, hi, n)
+
+
+class FluidStates:
+    """Property log-ratios of one model fluid over the case's temperature (and pressure) range."""
+
+    def __init__(self, case: Case, fluid: str, used: frozenset[str]) -> None:
+        from compromise.physics.fluids import get_fluid
+
+        self.case = case
+        self.fluid = get_fluid(fluid)
+        self.name = self.fluid.name
+        proto = get_fluid(case.fluid).properties(case.temperature, case.pressure)
+        from compromise.solving.problem import property_environment
+
+        penv = property_environment(proto)
+        # gravity is the same in model and prototype: its log-ratio is zero
+        self.proto_log = np.array(
+            [
+                0.0 if n == "g" else math.log(penv[n]) if penv[n] > 0 else np.nan
+                for n in PROPERTY_NAMES
+            ]
+        )
+        self.used = np.array([n in used for n in PROPERTY_NAMES])
+        self.gas = self.fluid.phase == "gas"
+        m = case.model
+        self.t_range = m.temperature
+        missing = [
+            n
+            for n in PROPERTY_NAMES[:-1]
+            if n in used
+            and not np.isfinite(
+                self._p(np.array([m.temperature[0]]), m.pressure[0])[0][PROPERTY_NAMES.index(n)]
+            )
+        ]
+        if missing:
+            raise CaseError(
+                f"'{self.name}' has no {missing[0]} (as the groups or limits need)",
+                file=case.path,
+                key="model.fluids",
+            )
+
+    def _p(self, T: np.ndarray, P: float) -> np.ndarray:
+        tab = self.fluid.table(P)(np.asarray(T, dtype=float))
+        logs = np.column_stack(
+            [
+                np.log(tab[k]) if k != "g" else np.zeros(len(T))
+                for k in ("rho", "mu", "nu", "sigma", "c", "g")
+            ]
+        )
+        p = logs - self.proto_log
+        p[:, ~self.used] = 0.0
+        return p
+
+    def p(self, T: np.ndarray, P: float) -> np.ndarray:
+        """Property log-ratios (N, 6) at temperatures ``T`` [K] and pressure ``P`` [Pa]."""
+        return self._p(np.atleast_1d(T), P)
+
+    def exact_p(self, T: float, P: float) -> np.ndarray:
+        """Property log-ratios from the source models (not the splines)."""
+        from compromise.solving.problem import property_environment
+
+        env = property_environment(self.fluid.properties(T, P))
+        with np.errstate(invalid="ignore", divide="ignore"):
+            logs = np.array(
+                [
+                    0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
+                    for n in PROPERTY_NAMES
+                ]
+            )
+        p = logs - self.proto_log
+        p[~self.used] = 0.0
+        return p
+
+    def pressures(self) -> np.ndarray:
+        """The pressure grid [Pa] (one value for a liquid)."""
+        lo, hi = self.case.model.pressure
+        return grid_points(lo, hi, N_PRESSURES, log=True) if self.gas else np.array([lo])
+
+
+def best_state(
+    engine: Engine,
+    fs: FluidStates,
+    *,
+    n_temperatures: int = N_TEMPERATURES,
+    h_shift: np.ndarray | None = None,
+    extra_e: np.ndarray | None = None,
+    polish: bool = True,
+) -> State | None:
+    """The optimal state of one fluid: grid over temperature (and pressure), then polish.
+
+    The polish zooms: a fine grid of :data:`N_ZOOM` temperatures over the two grid cells around
+    the best point, solved in one batch, repeated :data:`ZOOM_ROUNDS` times (each round shrinks
+    the interval about 16-fold). Unlike a parabolic line search it is not misled by the kinks
+    where the active set changes. For a gas, log-pressure is zoomed the same way with the
+    source property models.
+    """
+    t_lo, t_hi = fs.t_range
+    T = grid_points(t_lo, t_hi, n_temperatures)
+    best: tuple[float, float, float] | None = None  # (objective, T, P)
+    for P in fs.pressures():
+        _, obj = engine.solve(fs.p(T, P), h_shift, extra_e)
+        k = int(np.argmin(obj))
+        if np.isfinite(obj[k]) and (best is None or obj[k] < best[0] - 1e-15):
+            best = (float(obj[k]), float(T[k]), float(P))
+    if best is None:
+        return None
+    obj0, t_best, p_best = best
+    Ps = fs.pressures()
+    for _ in range(2 if fs.gas and Ps.size > 1 else 1):
+        if polish and len(T) > 1:
+            half = T[1] - T[0]
+            for _ in range(ZOOM_ROUNDS):
+                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
+                _, obj = engine.solve(fs.p(Tz, p_best), h_shift, extra_e)
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, t_best = float(obj[k]), float(Tz[k])
+                half = 2.0 * (Tz[1] - Tz[0])
+        if polish and fs.gas and Ps.size > 1:
+            half = math.log(Ps[1] / Ps[0])
+            lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
+            for _ in range(ZOOM_ROUNDS):
+                lp = np.linspace(
+                    max(lp_lo, math.log(p_best) - half),
+                    min(lp_hi, math.log(p_best) + half),
+                    N_ZOOM_PRESSURE,
+                )
+                pz = np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
+                _, obj = engine.solve(pz, h_shift, extra_e)
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
+                half = 2.0 * (lp[1] - lp[0])
+    step = (T[1] - T[0]) / 16.0**ZOOM_ROUNDS if len(T) > 1 else 0.0
+    return _finish(engine, fs, t_best, p_best, step, h_shift, extra_e)
+
+
+def _finish(
+    engine: Engine,
+    fs: FluidStates,
+    t: float,
+    P: float,
+    step: float,
+    h_shift: np.ndarray | None,
+    extra_e: np.ndarray | None,
+) -> State | None:
+    """Re-solve at the polished state with the source property models (not the splines).
+
+    Where the splines (relative error ~1e-8) put the state just inside a bound that the source
+    models put just outside, step back into the feasible side in growing steps.
+    """
+    batch, obj = engine.solve(fs.exact_p(t, P)[None], h_shift, extra_e)
+    if batch.feasible[0]:
+        return State(fs.name, t, P, batch.y[0], float(obj[0]))
+    lo, hi = fs.t_range
+    for k in range(1, 12):
+        cands = [c for c in (t - step * 4.0**k, t + step * 4.0**k) if lo <= c <= hi]
+        if not cands:
+            break
+        ps = np.array([fs.exact_p(c, P) for c in cands])
+        batch, obj = engine.solve(ps, h_shift, extra_e)
+        if batch.feasible.any():
+            j = int(np.argmin(obj))
+            return State(fs.name, cands[j], P, batch.y[j], float(obj[j]))
+    return None
+
+
+def best_states(
+    engine: Engine,
+    fss: list[FluidStates],
+    *,
+    n_temperatures: int = N_TEMPERATURES,
+    h_shift: np.ndarray | None = None,
+    extra_e: np.ndarray | None = None,
+) -> list[State | None]:
+    """:func:`best_state` for several fluids, batching the liquids into shared solves.
+
+    Every liquid's temperature grid goes into one batched solve, and so does every zoom round;
+    gases with a pressure range take the one-fluid path.
+    """
+    out: list[State | None] = [None] * len(fss)
+    liquids = [i for i, fs in enumerate(fss) if fs.pressures().size == 1]
+    for i, fs in enumerate(fss):
+        if i not in liquids:
+            out[i] = best_state(
+                engine, fs, n_temperatures=n_temperatures, h_shift=h_shift, extra_e=extra_e
+            )
+    if not liquids:
+        return out
+    P = {i: float(fss[i].pressures()[0]) for i in liquids}
+    grids = {i: grid_points(*fss[i].t_range, n_temperatures) for i in liquids}
+    p_all = np.vstack([fss[i].p(grids[i], P[i]) for i in liquids])
+    _, obj = engine.solve(p_all, h_shift, extra_e)
+    best: dict[int, list[float]] = {}
+    half: dict[int, float] = {}
+    start = 0
+    for i in liquids:
+        n = grids[i].size
+        o = obj[start : start + n]
+        start += n
+        k = int(np.argmin(o))
+        if np.isfinite(o[k]):
+            best[i] = [float(o[k]), float(grids[i][k])]
+            half[i] = float(grids[i][1] - grids[i][0]) if n > 1 else 0.0
+    zoom = [i for i in best if half[i] > 0]
+    for _ in range(ZOOM_ROUNDS if zoom else 0):
+        Tz = {}
+        for i in zoom:
+            lo, hi = fss[i].t_range
+            Tz[i] = np.linspace(
+                max(lo, best[i][1] - half[i]), min(hi, best[i][1] + half[i]), N_ZOOM
+            )
+        p_all = np.vstack([fss[i].p(Tz[i], P[i]) for i in zoom])
+        _, obj = engine.solve(p_all, h_shift, extra_e)
+        for j, i in enumerate(zoom):
+            o = obj[j * N_ZOOM : (j + 1) * N_ZOOM]
+            k = int(np.argmin(o))
+            if o[k] < best[i][0]:
+                best[i] = [float(o[k]), float(Tz[i][k])]
+            half[i] = 2.0 * float(Tz[i][1] - Tz[i][0])
+    for i in best:
+        out[i] = _finish(engine, fss[i], best[i][1], P[i], half[i] / 2.0, h_shift, extra_e)
+    return out

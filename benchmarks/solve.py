@@ -4,6 +4,9 @@ A benchmark, not a test. On the bundled river case with six candidate model flui
 temperature range it prints, in one run: the exact solver's time and objective; scipy's
 ``differential_evolution`` (tol 1e-10) on the same problem; a dense brute force; and the
 ratios. Then the solver's time for 6, 24 and 96 candidate fluids (growth should be linear).
+Last, for every bundled case, the optimum alone beside the complete answer (alternatives per
+fluid and per preferred ratio, the diagnosis of each infeasible preferred ratio, the cost of
+every binding limit and the scale effects), against the 30 ms target for the complete answer.
 
 Run: ``.venv/bin/python benchmarks/solve.py``
 """
@@ -17,9 +20,10 @@ from pathlib import Path
 
 import numpy as np
 
-from compromise.casefile.load import case_from_dict
+from compromise.casefile.load import case_from_dict, load_case
 from compromise.review.answer import solve
 from compromise.solving.grid import FluidStates
+from compromise.solving.optimum import find_optimum
 from compromise.solving.problem import build_problem
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -144,5 +148,23 @@ def main() -> None:
         )
 
 
+def bundled() -> None:
+    """The optimum alone and the complete answer on every bundled case (tables cached)."""
+    print()
+    print("bundled cases: the optimum alone and the complete answer (best of 7, tables cached)")
+    print(f"{'case':14s} {'optimum [ms]':>13s} {'answer [ms]':>12s} {'ratio':>6s}  target 30 ms")
+    for path in sorted((ROOT / "cases").glob("*.toml")):
+        case = load_case(path)
+        solve(case)
+        t_opt, _ = timed(lambda case=case: find_optimum(case, alternatives=False), repeat=7)
+        t_all, _ = timed(lambda case=case: solve(case), repeat=7)
+        verdict = "met" if t_all < 0.030 else "NOT met"
+        print(
+            f"{path.stem:14s} {t_opt * 1e3:13.1f} {t_all * 1e3:12.1f} {t_all / t_opt:6.1f}"
+            f"  {verdict}"
+        )
+
+
 if __name__ == "__main__":
     main()
+    bundled()

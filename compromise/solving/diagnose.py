@@ -9,6 +9,10 @@ References
 ----------
 Chinneck, J. W., Dravnieks, E. W. (1991). Locating minimal infeasible constraint sets in linear
 programs. *ORSA Journal on Computing* 3(2), 157-168 (the deletion filter), from memory.
+
+The least violation and the feasibility tests are exact vertex enumerations
+(:mod:`compromise.solving.smalllp`); only the per-bound relaxations use a linear-programming
+solver.
 """
 
 from __future__ import annotations
@@ -20,6 +24,7 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from compromise.solving.problem import Problem, Row
+from compromise.solving.smalllp import feasible, least_violation
 
 if TYPE_CHECKING:
     from compromise.solving.grid import FluidStates
@@ -75,40 +80,7 @@ def _states(states: dict[str, FluidStates]) -> list[tuple[str, float, float, np.
     return out
 
 
-def _feasible(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> bool:
-    from scipy.optimize import linprog
-
-    if G.shape[0] == 0 and E.shape[0] == 0:
-        return True
-    r = linprog(
-        np.zeros(3),
-        A_ub=G if G.size else None,
-        b_ub=h if G.size else None,
-        A_eq=E if E.size else None,
-        b_eq=e if E.size else None,
-        bounds=[(None, None)] * 3,
-        method="highs",
-    )
-    return r.status == 0
-
-
-def _violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> float:
-    """Least total violation (phase 1, elastic rows) in log space."""
-    from scipy.optimize import linprog
-
-    m, q = G.shape[0], E.shape[0]
-    n = 3 + m + 2 * q
-    c = np.r_[np.zeros(3), np.ones(m + 2 * q)]
-    A_ub = np.hstack([G, -np.eye(m), np.zeros((m, 2 * q))])
-    A_eq = np.hstack([E, np.zeros((q, m)), -np.eye(q), np.eye(q)]) if q else None
-    bounds = [(None, None)] * 3 + [(0, None)] * (n - 3)
-    r = linprog(
-        c, A_ub=A_ub, b_ub=h, A_eq=A_eq, b_eq=e if q else None, bounds=bounds, method="highs"
-    )
-    return float(r.fun) if r.status == 0 else math.inf
-
-
-def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
+def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = True) -> Conflict:
     """Find the conflicting bounds of an infeasible problem and the relaxation of each.
 
     Returns
@@ -116,7 +88,8 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
     Conflict
         ``keys`` lists the case-file keys of an irreducible conflicting set (inequality rows and
         exact groups or fixed ratios); ``relaxation`` gives, for each inequality row, the bound
-        that alone would make the case feasible (``None`` where no such bound exists).
+        that alone would make the case feasible (``None`` where no such bound exists); with
+        ``relax=False`` only the conflicting set is found (every relaxation is ``None``).
     """
     from scipy.optimize import linprog
 
@@ -125,7 +98,7 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
     m, q = G.shape[0], E.shape[0]
     cands = _states(states)
     rhs = [problem.rhs(p) for *_, p in cands]
-    viol = [_violation(G, h, E, e) for h, e in rhs]
+    viol = least_violation(G, np.array([h for h, _ in rhs]), E, np.array([e for _, e in rhs]))
     k = int(np.argmin(viol))
     h, e = rhs[k]
     # deletion filter over inequality rows then equality rows
@@ -133,11 +106,11 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
     keep_e = list(range(q))
     for i in range(m):
         trial = [j for j in keep_i if j != i]
-        if not _feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
+        if not feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
             keep_i = trial
     for i in range(q):
         trial = [j for j in keep_e if j != i]
-        if not _feasible(G[keep_i], h[keep_i], E[trial], e[trial]):
+        if not feasible(G[keep_i], h[keep_i], E[trial], e[trial]):
             keep_e = trial
     keys: list[str] = []
     relaxation: dict[str, float | None] = {}
@@ -153,6 +126,9 @@ def diagnose(problem: Problem, states: dict[str, FluidStates]) -> Conflict:
             units[row.key] = "ratio"
         else:
             units[row.key] = "-"
+        if not relax:
+            relaxation[row.key] = None
+            continue
         others = [j for j in range(m) if j != i]
         best = math.inf
         for hh, ee in rhs:

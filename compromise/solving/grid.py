@@ -10,6 +10,7 @@ polish and a final re-solve with the fluids' source property models.
 from __future__ import annotations
 
 import math
+from collections.abc import Generator
 from dataclasses import dataclass
 
 import numpy as np
@@ -133,6 +134,7 @@ class FluidStates:
         )
         self.used = np.array([n in used for n in PROPERTY_NAMES])
         self.gas = self.fluid.phase == "gas"
+        self._exact: dict[tuple[float, float], np.ndarray] = {}
         m = case.model
         self.t_range = m.temperature
         missing = [
@@ -167,7 +169,15 @@ class FluidStates:
         return self._p(np.atleast_1d(T), P)
 
     def exact_p(self, T: float, P: float) -> np.ndarray:
-        """Property log-ratios from the source models (not the splines)."""
+        """Property log-ratios from the source models (not the splines), memoised per state."""
+        key = (float(T), float(P))
+        hit = self._exact.get(key)
+        if hit is None:
+            hit = self._exact[key] = self._exact_p(T, P)
+            hit.flags.writeable = False
+        return hit
+
+    def _exact_p(self, T: float, P: float) -> np.ndarray:
         from compromise.solving.problem import property_environment
 
         env = property_environment(self.fluid.properties(T, P))
@@ -188,6 +198,160 @@ class FluidStates:
         return grid_points(lo, hi, N_PRESSURES, log=True) if self.gas else np.array([lo])
 
 
+# --------------------------------------------------------------------------------------------
+# the search for each fluid's best state, as jobs that share batched solves
+#
+# A job is a generator: it yields the property log-ratios (k, 6) it wants solved and receives
+# ``(y, feasible, objective)`` for them. :func:`_drive` runs many jobs (several fluids, and
+# several scenarios: relaxed bounds, fixed ratios) in lockstep, stacking every pending request
+# into one solve per step. Each job's own arithmetic is unchanged by the company it keeps, so a
+# batched search returns exactly what the job would return alone.
+
+Reply = tuple[np.ndarray, np.ndarray, np.ndarray]
+Job = Generator[np.ndarray, Reply, "State | None"]
+Scenario = tuple["np.ndarray | None", "np.ndarray | None"]  # (h_shift, extra_e)
+
+
+def _drive(engine: Engine, jobs: list[tuple[Job, Scenario]]) -> list[State | None]:
+    """Run jobs to completion, one batched solve per round of requests."""
+    out: list[State | None] = [None] * len(jobs)
+    pending: dict[int, np.ndarray] = {}
+
+    def advance(i: int, reply: Reply | None) -> None:
+        try:
+            req = jobs[i][0].send(reply)  # type: ignore[arg-type]
+        except StopIteration as stop:
+            out[i] = stop.value
+            pending.pop(i, None)
+        else:
+            pending[i] = np.atleast_2d(req)
+
+    for i in range(len(jobs)):
+        advance(i, None)
+    m, k = engine.problem.G.shape[0], engine.extra.shape[0]
+    while pending:
+        order = list(pending)
+        sizes = [pending[i].shape[0] for i in order]
+        p_all = np.vstack([pending[i] for i in order])
+        shifted = any(jobs[i][1][0] is not None for i in order)
+        h_shift = (
+            np.vstack(
+                [
+                    np.broadcast_to(np.zeros(m) if jobs[i][1][0] is None else jobs[i][1][0], (n, m))
+                    for i, n in zip(order, sizes, strict=True)
+                ]
+            )
+            if shifted
+            else None
+        )
+        extra_e = (
+            np.vstack(
+                [
+                    np.broadcast_to(np.zeros(k) if jobs[i][1][1] is None else jobs[i][1][1], (n, k))
+                    for i, n in zip(order, sizes, strict=True)
+                ]
+            )
+            if k
+            else None
+        )
+        batch, obj = engine.solve(p_all, h_shift, extra_e)
+        start = 0
+        for i, n in zip(order, sizes, strict=True):
+            sl = slice(start, start + n)
+            start += n
+            advance(i, (batch.y[sl], batch.feasible[sl], obj[sl]))
+    return out
+
+
+def _single_job(
+    fs: FluidStates, n_temperatures: int, polish: bool
+) -> Generator[np.ndarray, Reply, State | None]:
+    """One fluid's search: grid over temperature (and pressure), zoom, exact finish."""
+    t_lo, t_hi = fs.t_range
+    T = grid_points(t_lo, t_hi, n_temperatures)
+    best: tuple[float, float, float] | None = None  # (objective, T, P)
+    _, _, grid_obj = yield np.vstack([fs.p(T, P) for P in fs.pressures()])
+    for j, P in enumerate(fs.pressures()):
+        obj = grid_obj[j * T.size : (j + 1) * T.size]
+        k = int(np.argmin(obj))
+        if np.isfinite(obj[k]) and (best is None or obj[k] < best[0] - 1e-15):
+            best = (float(obj[k]), float(T[k]), float(P))
+    if best is None:
+        return None
+    obj0, t_best, p_best = best
+    Ps = fs.pressures()
+    for _ in range(2 if fs.gas and Ps.size > 1 else 1):
+        if polish and len(T) > 1:
+            half = T[1] - T[0]
+            for _ in range(ZOOM_ROUNDS):
+                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
+                _, _, obj = yield fs.p(Tz, p_best)
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, t_best = float(obj[k]), float(Tz[k])
+                half = 2.0 * (Tz[1] - Tz[0])
+        if polish and fs.gas and Ps.size > 1:
+            half = math.log(Ps[1] / Ps[0])
+            lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
+            for _ in range(ZOOM_ROUNDS):
+                lp = np.linspace(
+                    max(lp_lo, math.log(p_best) - half),
+                    min(lp_hi, math.log(p_best) + half),
+                    N_ZOOM_PRESSURE,
+                )
+                _, _, obj = yield np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
+                k = int(np.argmin(obj))
+                if obj[k] < obj0:
+                    obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
+                half = 2.0 * (lp[1] - lp[0])
+    step = (T[1] - T[0]) / 16.0**ZOOM_ROUNDS if len(T) > 1 else 0.0
+    return (yield from _finish(fs, t_best, p_best, step))
+
+
+def _liquid_job(fs: FluidStates, n_temperatures: int) -> Generator[np.ndarray, Reply, State | None]:
+    """A liquid's search (one pressure): temperature grid, zoom, exact finish."""
+    P = float(fs.pressures()[0])
+    grid = grid_points(*fs.t_range, n_temperatures)
+    _, _, o = yield fs.p(grid, P)
+    k = int(np.argmin(o))
+    if not np.isfinite(o[k]):
+        return None
+    best = [float(o[k]), float(grid[k])]
+    half = float(grid[1] - grid[0]) if grid.size > 1 else 0.0
+    for _ in range(ZOOM_ROUNDS if half > 0 else 0):
+        lo, hi = fs.t_range
+        Tz = np.linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
+        _, _, o = yield fs.p(Tz, P)
+        k = int(np.argmin(o))
+        if o[k] < best[0]:
+            best = [float(o[k]), float(Tz[k])]
+        half = 2.0 * float(Tz[1] - Tz[0])
+    return (yield from _finish(fs, best[1], P, half / 2.0))
+
+
+def _finish(
+    fs: FluidStates, t: float, P: float, step: float
+) -> Generator[np.ndarray, Reply, State | None]:
+    """Re-solve at the polished state with the source property models (not the splines).
+
+    Where the splines (relative error ~1e-8) put the state just inside a bound that the source
+    models put just outside, step back into the feasible side in growing steps.
+    """
+    y, feasible, obj = yield fs.exact_p(t, P)[None]
+    if feasible[0]:
+        return State(fs.name, t, P, y[0], float(obj[0]))
+    lo, hi = fs.t_range
+    for k in range(1, 12):
+        cands = [c for c in (t - step * 4.0**k, t + step * 4.0**k) if lo <= c <= hi]
+        if not cands:
+            break
+        y, feasible, obj = yield np.array([fs.exact_p(c, P) for c in cands])
+        if feasible.any():
+            j = int(np.argmin(obj))
+            return State(fs.name, cands[j], P, y[j], float(obj[j]))
+    return None
+
+
 def best_state(
     engine: Engine,
     fs: FluidStates,
@@ -205,75 +369,7 @@ def best_state(
     where the active set changes. For a gas, log-pressure is zoomed the same way with the
     source property models.
     """
-    t_lo, t_hi = fs.t_range
-    T = grid_points(t_lo, t_hi, n_temperatures)
-    best: tuple[float, float, float] | None = None  # (objective, T, P)
-    for P in fs.pressures():
-        _, obj = engine.solve(fs.p(T, P), h_shift, extra_e)
-        k = int(np.argmin(obj))
-        if np.isfinite(obj[k]) and (best is None or obj[k] < best[0] - 1e-15):
-            best = (float(obj[k]), float(T[k]), float(P))
-    if best is None:
-        return None
-    obj0, t_best, p_best = best
-    Ps = fs.pressures()
-    for _ in range(2 if fs.gas and Ps.size > 1 else 1):
-        if polish and len(T) > 1:
-            half = T[1] - T[0]
-            for _ in range(ZOOM_ROUNDS):
-                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
-                _, obj = engine.solve(fs.p(Tz, p_best), h_shift, extra_e)
-                k = int(np.argmin(obj))
-                if obj[k] < obj0:
-                    obj0, t_best = float(obj[k]), float(Tz[k])
-                half = 2.0 * (Tz[1] - Tz[0])
-        if polish and fs.gas and Ps.size > 1:
-            half = math.log(Ps[1] / Ps[0])
-            lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
-            for _ in range(ZOOM_ROUNDS):
-                lp = np.linspace(
-                    max(lp_lo, math.log(p_best) - half),
-                    min(lp_hi, math.log(p_best) + half),
-                    N_ZOOM_PRESSURE,
-                )
-                pz = np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
-                _, obj = engine.solve(pz, h_shift, extra_e)
-                k = int(np.argmin(obj))
-                if obj[k] < obj0:
-                    obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
-                half = 2.0 * (lp[1] - lp[0])
-    step = (T[1] - T[0]) / 16.0**ZOOM_ROUNDS if len(T) > 1 else 0.0
-    return _finish(engine, fs, t_best, p_best, step, h_shift, extra_e)
-
-
-def _finish(
-    engine: Engine,
-    fs: FluidStates,
-    t: float,
-    P: float,
-    step: float,
-    h_shift: np.ndarray | None,
-    extra_e: np.ndarray | None,
-) -> State | None:
-    """Re-solve at the polished state with the source property models (not the splines).
-
-    Where the splines (relative error ~1e-8) put the state just inside a bound that the source
-    models put just outside, step back into the feasible side in growing steps.
-    """
-    batch, obj = engine.solve(fs.exact_p(t, P)[None], h_shift, extra_e)
-    if batch.feasible[0]:
-        return State(fs.name, t, P, batch.y[0], float(obj[0]))
-    lo, hi = fs.t_range
-    for k in range(1, 12):
-        cands = [c for c in (t - step * 4.0**k, t + step * 4.0**k) if lo <= c <= hi]
-        if not cands:
-            break
-        ps = np.array([fs.exact_p(c, P) for c in cands])
-        batch, obj = engine.solve(ps, h_shift, extra_e)
-        if batch.feasible.any():
-            j = int(np.argmin(obj))
-            return State(fs.name, cands[j], P, batch.y[j], float(obj[j]))
-    return None
+    return _drive(engine, [(_single_job(fs, n_temperatures, polish), (h_shift, extra_e))])[0]
 
 
 def best_states(
@@ -284,51 +380,34 @@ def best_states(
     h_shift: np.ndarray | None = None,
     extra_e: np.ndarray | None = None,
 ) -> list[State | None]:
-    """:func:`best_state` for several fluids, batching the liquids into shared solves.
+    """:func:`best_state` for several fluids, their searches sharing batched solves."""
+    return best_states_scenarios(engine, fss, [(h_shift, extra_e)], n_temperatures=n_temperatures)[
+        0
+    ]
 
-    Every liquid's temperature grid goes into one batched solve, and so does every zoom round;
-    gases with a pressure range take the one-fluid path.
+
+def best_states_scenarios(
+    engine: Engine,
+    fss: list[FluidStates],
+    scenarios: list[Scenario],
+    *,
+    n_temperatures: int = N_TEMPERATURES,
+) -> list[list[State | None]]:
+    """Every fluid's best state under each scenario ``(h_shift, extra_e)``, in shared batches.
+
+    A scenario shifts the right-hand sides of the inequality rows (a relaxed bound) and/or sets
+    the engine's extra equality rows (a fixed ratio). Liquids take the one-pressure search,
+    gases with a pressure range the two-dimensional one.
     """
-    out: list[State | None] = [None] * len(fss)
-    liquids = [i for i, fs in enumerate(fss) if fs.pressures().size == 1]
-    for i, fs in enumerate(fss):
-        if i not in liquids:
-            out[i] = best_state(
-                engine, fs, n_temperatures=n_temperatures, h_shift=h_shift, extra_e=extra_e
+    jobs: list[tuple[Job, Scenario]] = []
+    for sc in scenarios:
+        for fs in fss:
+            job = (
+                _liquid_job(fs, n_temperatures)
+                if fs.pressures().size == 1
+                else _single_job(fs, n_temperatures, True)
             )
-    if not liquids:
-        return out
-    P = {i: float(fss[i].pressures()[0]) for i in liquids}
-    grids = {i: grid_points(*fss[i].t_range, n_temperatures) for i in liquids}
-    p_all = np.vstack([fss[i].p(grids[i], P[i]) for i in liquids])
-    _, obj = engine.solve(p_all, h_shift, extra_e)
-    best: dict[int, list[float]] = {}
-    half: dict[int, float] = {}
-    start = 0
-    for i in liquids:
-        n = grids[i].size
-        o = obj[start : start + n]
-        start += n
-        k = int(np.argmin(o))
-        if np.isfinite(o[k]):
-            best[i] = [float(o[k]), float(grids[i][k])]
-            half[i] = float(grids[i][1] - grids[i][0]) if n > 1 else 0.0
-    zoom = [i for i in best if half[i] > 0]
-    for _ in range(ZOOM_ROUNDS if zoom else 0):
-        Tz = {}
-        for i in zoom:
-            lo, hi = fss[i].t_range
-            Tz[i] = np.linspace(
-                max(lo, best[i][1] - half[i]), min(hi, best[i][1] + half[i]), N_ZOOM
-            )
-        p_all = np.vstack([fss[i].p(Tz[i], P[i]) for i in zoom])
-        _, obj = engine.solve(p_all, h_shift, extra_e)
-        for j, i in enumerate(zoom):
-            o = obj[j * N_ZOOM : (j + 1) * N_ZOOM]
-            k = int(np.argmin(o))
-            if o[k] < best[i][0]:
-                best[i] = [float(o[k]), float(Tz[i][k])]
-            half[i] = 2.0 * float(Tz[i][1] - Tz[i][0])
-    for i in best:
-        out[i] = _finish(engine, fss[i], best[i][1], P[i], half[i] / 2.0, h_shift, extra_e)
-    return out
+            jobs.append((job, sc))
+    flat = _drive(engine, jobs)
+    n = len(fss)
+    return [flat[i * n : (i + 1) * n] for i in range(len(scenarios))]

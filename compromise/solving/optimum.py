@@ -20,7 +20,14 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.solving.design import evaluate_design
 from compromise.solving.diagnose import diagnose, relaxed_bound
-from compromise.solving.grid import N_TEMPERATURES, Engine, FluidStates, State, best_states
+from compromise.solving.grid import (
+    N_TEMPERATURES,
+    Engine,
+    FluidStates,
+    State,
+    best_states,
+    best_states_scenarios,
+)
 from compromise.solving.nonlinear import solve_nonlinear
 from compromise.solving.problem import PROPERTY_NAMES, Problem, build_problem
 from compromise.solving.result import (
@@ -85,7 +92,7 @@ def find_optimum(
     design = design_of(best)
     evaluation = evaluate_design(case, design)
     binding = (
-        _binding_costs(problem, engine, states[best.fluid], best, n_temperatures)
+        _binding_costs(problem, engine, states, best, n_temperatures)
         if alternatives
         else {}
     )
@@ -98,11 +105,15 @@ def find_optimum(
 
 
 def _binding_costs(
-    problem: Problem, engine: Engine, fs: FluidStates, best: State, n_temperatures: int
+    problem: Problem,
+    engine: Engine,
+    states: dict[str, FluidStates],
+    best: State,
+    n_temperatures: int,
 ) -> dict[str, BindingCost]:
     from scipy.optimize import nnls
 
-    p = fs.exact_p(best.temperature, best.pressure)
+    p = states[best.fluid].exact_p(best.temperature, best.pressure)
     f, h, _, _ = engine.linear_terms(p[None])
     y = best.y
     slack = h[0] - problem.G @ y
@@ -118,19 +129,16 @@ def _binding_costs(
     sol, _ = nnls(M, -grad)
     lam = sol[: active.size]
     shift = math.log(1.0 + RELAXATION)
-    all_states = [
-        fs if g == fs.name else FluidStates(problem.case, g, problem.used_properties)
-        for g in problem.case.model.fluids
-    ]
-    for i, li in zip(active, lam, strict=True):
-        row = problem.rows[i]
+    all_states = list(states.values())
+    scenarios = []
+    for i in active:
         hs = np.zeros(problem.G.shape[0])
         hs[i] = shift
-        objs = [
-            s.objective
-            for s in best_states(engine, all_states, n_temperatures=n_temperatures, h_shift=hs)
-            if s is not None
-        ]
+        scenarios.append((hs, None))
+    relaxed = best_states_scenarios(engine, all_states, scenarios, n_temperatures=n_temperatures)
+    for i, li, found in zip(active, lam, relaxed, strict=True):
+        row = problem.rows[i]
+        objs = [s.objective for s in found if s is not None]
         new = min(objs) if objs else best.objective
         key = row.key
         out[key] = BindingCost(
@@ -153,7 +161,8 @@ def _ratio_conflict(problem: Problem, states: dict[str, FluidStates], ratio: flo
         Q=np.vstack([problem.Q, np.zeros(len(PROPERTY_NAMES))]),
         exact_groups=(*problem.exact_groups, "horizontal_ratio"),
     )
-    keys = [k for k in diagnose(fixed, states).keys if not k.startswith("model.horizontal_ratio")]
+    found = diagnose(fixed, states, relax=False).keys
+    keys = [k for k in found if not k.startswith("model.horizontal_ratio")]
     return keys or ["the case's bounds"]
 
 
@@ -185,17 +194,15 @@ def _alternatives(
         )
     if case.model.preferred_ratios:
         engine = Engine(problem, extra_E=np.array([[1.0, 0.0, 0.0]]))
-        for r in case.model.preferred_ratios:
-            cands = [
-                c
-                for c in best_states(
-                    engine,
-                    list(states.values()),
-                    n_temperatures=n_temperatures,
-                    extra_e=np.array([math.log(r)]),
-                )
-                if c is not None
-            ]
+        ratios = case.model.preferred_ratios
+        per_ratio = best_states_scenarios(
+            engine,
+            list(states.values()),
+            [(None, np.array([math.log(r)])) for r in ratios],
+            n_temperatures=n_temperatures,
+        )
+        for r, found in zip(ratios, per_ratio, strict=True):
+            cands = [c for c in found if c is not None]
             label = format_ratio(r)
             if not cands:
                 lo, hi = case.model.horizontal_ratio

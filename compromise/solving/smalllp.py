@@ -1,0 +1,86 @@
+"""Exact least violation of small systems of linear rows, by enumerating vertices.
+
+The diagnosis of an infeasible case asks two questions many times over systems in the three
+decision log-ratios: is ``G y <= h, E y = e`` feasible, and what is the least total violation
+``min_y sum(max(0, G y - h)) + sum(|E y - e|)``? The second is a convex piecewise-linear function
+bounded below by zero. Restricted to the row space of the stacked normals (the function does
+not change along directions orthogonal to every normal), it has no line of constancy, so its
+minimum is attained at a vertex of the arrangement of the rows' hyperplanes: a point where
+``r`` linearly independent rows hold with equality, ``r`` being the rank of the normals (the
+basic solutions of the equivalent linear programme). With at most three variables there are few
+such vertices, and every right-hand side is answered by one batched matrix product, with no
+iterative solver and its tolerances.
+
+References
+----------
+Bertsimas, D., Tsitsiklis, J. N. (1997). *Introduction to Linear Optimization*, ch. 2
+(polyhedra, basic solutions and the existence of an optimal vertex), from memory.
+"""
+
+from __future__ import annotations
+
+import itertools
+
+import numpy as np
+
+FEASIBILITY_TOL = 1e-9  # [-] least violation below this (plus relative) counts as feasible
+
+
+def least_violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> np.ndarray:
+    """Least total violation of ``G y <= h`` and ``E y = e`` for one or many right-hand sides.
+
+    Parameters
+    ----------
+    G : (m, n) array
+    h : (m,) or (N, m) array
+    E : (q, n) array
+    e : (q,) or (N, q) array
+
+    Returns
+    -------
+    numpy.ndarray
+        (N,) least violations (log space, [-]); zero where the system is feasible.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> G = np.array([[1.0, 0, 0], [-1.0, 0, 0]])   # y0 <= 1 and y0 >= 3
+    >>> float(least_violation(G, np.array([1.0, -3.0]), np.zeros((0, 3)), np.zeros(0))[0])
+    2.0
+    """
+    G = np.asarray(G, dtype=float)
+    E = np.asarray(E, dtype=float).reshape(-1, G.shape[1])
+    m, q = G.shape[0], E.shape[0]
+    h = np.atleast_2d(np.asarray(h, dtype=float).reshape(-1, m) if m else np.zeros((1, 0)))
+    e = np.atleast_2d(np.asarray(e, dtype=float).reshape(-1, q) if q else np.zeros((1, 0)))
+    N = max(h.shape[0], e.shape[0])
+    h = np.broadcast_to(h, (N, m))
+    e = np.broadcast_to(e, (N, q))
+    A = np.vstack([G, E])
+    b = np.hstack([h, e])  # (N, k)
+    if A.shape[0] == 0:
+        return np.zeros(N)
+    _, s, vt = np.linalg.svd(A)
+    r = int(np.sum(s > 1e-10 * max(float(s[0]), 1.0)))
+    if r == 0:
+        return np.sum(np.maximum(-h, 0.0), axis=1) + np.sum(np.abs(e), axis=1)
+    B = A @ vt[:r].T  # (k, r): the rows in coordinates of their own span
+    combos = np.array(list(itertools.combinations(range(A.shape[0]), r)), dtype=int)
+    M = B[combos]  # (c, r, r)
+    sv = np.linalg.svd(M, compute_uv=False)
+    keep = sv[:, -1] > 1e-10 * np.maximum(sv[:, 0], 1.0)
+    combos, M = combos[keep], M[keep]
+    Minv = np.linalg.inv(M)  # (c, r, r)
+    u = np.einsum("cij,ncj->cni", Minv, b[:, combos])  # (c, N, r) vertices
+    res = u @ B.T - b[None]  # (c, N, k)
+    viol = np.sum(np.maximum(res[:, :, :m], 0.0), axis=2) + np.sum(np.abs(res[:, :, m:]), axis=2)
+    return viol.min(axis=0)
+
+
+def feasible(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> bool:
+    """Whether ``G y <= h, E y = e`` has a solution (to :data:`FEASIBILITY_TOL`)."""
+    scale = 1.0 + max(
+        float(np.max(np.abs(h))) if np.size(h) else 0.0,
+        float(np.max(np.abs(e))) if np.size(e) else 0.0,
+    )
+    return bool(least_violation(G, h, E, e)[0] <= FEASIBILITY_TOL * scale)

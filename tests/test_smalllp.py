@@ -68,3 +68,17 @@ def test_batch_of_right_hand_sides_matches_one_by_one() -> None:
 
 def test_empty_system_is_feasible_common_practice() -> None:
     assert feasible(np.zeros((0, 3)), np.zeros(0), np.zeros((0, 3)), np.zeros(0))
+
+
+def test_large_systems_go_to_highs_and_agree() -> None:
+    rng = np.random.default_rng(11)
+    G, h, E, e = random_system(rng, 60, 1, 3)  # C(61, 3) vertices: past the enumeration cap
+    assert_allclose(least_violation(G, h, E, e)[0], phase1_highs(G, h, E, e), rtol=1e-7, atol=1e-8)
+
+
+def test_duplicate_normals_do_not_change_feasibility() -> None:
+    rng = np.random.default_rng(5)
+    G, h, E, e = random_system(rng, 6, 0, 3)
+    many = np.vstack([G] + [G[:1]] * 300)  # 300 copies of one normal, looser and looser
+    bounds = np.concatenate([h, h[0] + np.arange(1, 301)])
+    assert feasible(many, bounds, E, e) == feasible(G, h, E, e)

@@ -65,9 +65,22 @@ class SmallQP:
 
     def __init__(self, H: np.ndarray, G: np.ndarray, E: np.ndarray) -> None:
         self.H = np.asarray(H, dtype=float)
-        self.G = np.asarray(G, dtype=float)
+        G = np.asarray(G, dtype=float).reshape(-1, self.H.shape[0])
         self.E = np.asarray(E, dtype=float)
         n = self.H.shape[0]
+        # rows with the same normal (limits on quantities that scale alike, such as several
+        # lengths) collapse to one row whose bound is, per subproblem, the tightest of theirs:
+        # the feasible set is the same, and the enumeration grows with distinct normals only
+        self.m_rows = G.shape[0]
+        self.G, group = G, np.arange(G.shape[0])
+        if G.shape[0]:
+            unique, inverse = np.unique(G, axis=0, return_inverse=True)
+            if unique.shape[0] < G.shape[0]:
+                self.G, group = unique, np.asarray(inverse).reshape(-1)
+        self._order = np.argsort(group, kind="stable")
+        counts = np.bincount(group, minlength=self.G.shape[0])
+        self._starts = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
+        self._collapsed = self.G.shape[0] < self.m_rows
         m, q = self.G.shape[0], self.E.shape[0]
         self.n, self.m, self.q = n, m, q
         # an independent subset of the equality rows; the others are checked as feasibility
@@ -131,9 +144,13 @@ class SmallQP:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
         f = np.atleast_2d(np.asarray(f, dtype=float))
         N = f.shape[0]
-        h = np.broadcast_to(
-            np.asarray(h, dtype=float).reshape(-1, self.m) if self.m else np.zeros((1, 0)),
-            (N, self.m),
+        h = self._tightest(
+            np.broadcast_to(
+                np.asarray(h, dtype=float).reshape(-1, self.m_rows)
+                if self.m_rows
+                else np.zeros((1, 0)),
+                (N, self.m_rows),
+            )
         )
         e = np.broadcast_to(
             np.asarray(e, dtype=float).reshape(-1, self.q) if self.q else np.zeros((1, 0)),
@@ -146,6 +163,12 @@ class SmallQP:
             y[a:b], obj[a:b], active[a:b] = self._solve(f[a:b], h[a:b], e[a:b])
         feasible = np.isfinite(obj)
         return QPBatch(y=y, objective=obj, active=active, feasible=feasible)
+
+    def _tightest(self, h: np.ndarray) -> np.ndarray:
+        """Right-hand sides (N, rows) -> (N, distinct normals): the smallest of each group."""
+        if not self._collapsed:
+            return h
+        return np.minimum.reduceat(h[:, self._order], self._starts, axis=1)
 
     def _solve(
         self, f: np.ndarray, h: np.ndarray, e: np.ndarray
@@ -173,10 +196,17 @@ class SmallQP:
         return y, v, np.where(feasible, best, -1)
 
     def multipliers(self, active: int, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> np.ndarray:
-        """Multipliers (m,) of the inequality rows for one solved subproblem (zero if inactive).
+        """Multipliers (rows,) of the inequality rows for one solved subproblem (zero if inactive).
 
         A multiplier is the rate at which the optimal value falls as that row's right-hand side
-        is raised.
+        is raised. Of rows sharing a normal, the tightest carries the multiplier.
         """
-        rhs = np.concatenate([-np.asarray(f, float), np.asarray(e, float), np.asarray(h, float)])
-        return self._mults[active] @ rhs
+        h = np.asarray(h, float).reshape(-1)
+        hu = self._tightest(h[None])[0]
+        rhs = np.concatenate([-np.asarray(f, float), np.asarray(e, float), hu])
+        mu = self._mults[active] @ rhs
+        out = np.zeros(self.m_rows)
+        groups = np.split(self._order, self._starts[1:])
+        for u, members in enumerate(groups):
+            out[members[np.argmin(h[members])]] = mu[u]
+        return out

@@ -20,10 +20,12 @@ Bertsimas, D., Tsitsiklis, J. N. (1997). *Introduction to Linear Optimization*, 
 from __future__ import annotations
 
 import itertools
+import math
 
 import numpy as np
 
 FEASIBILITY_TOL = 1e-9  # [-] least violation below this (plus relative) counts as feasible
+MAX_VERTICES = 20000  # larger arrangements go to a linear-programming solver
 
 
 def least_violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> np.ndarray:
@@ -64,6 +66,8 @@ def least_violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) 
     r = int(np.sum(s > 1e-10 * max(float(s[0]), 1.0)))
     if r == 0:
         return np.sum(np.maximum(-h, 0.0), axis=1) + np.sum(np.abs(e), axis=1)
+    if math.comb(A.shape[0], r) > MAX_VERTICES:
+        return np.array([_phase1_highs(G, h[i], E, e[i]) for i in range(N)])
     B = A @ vt[:r].T  # (k, r): the rows in coordinates of their own span
     combos = np.array(list(itertools.combinations(range(A.shape[0]), r)), dtype=int)
     M = B[combos]  # (c, r, r)
@@ -77,8 +81,43 @@ def least_violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) 
     return viol.min(axis=0)
 
 
+def _phase1_highs(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> float:
+    """The same least violation by a linear programme (HiGHS), for systems too large to
+    enumerate."""
+    from scipy.optimize import linprog
+
+    m, q, n = G.shape[0], E.shape[0], G.shape[1]
+    c = np.r_[np.zeros(n), np.ones(m + 2 * q)]
+    A_ub = np.hstack([G, -np.eye(m), np.zeros((m, 2 * q))]) if m else None
+    A_eq = np.hstack([E, np.zeros((q, m)), -np.eye(q), np.eye(q)]) if q else None
+    bounds = [(None, None)] * n + [(0, None)] * (m + 2 * q)
+    r = linprog(
+        c,
+        A_ub=A_ub,
+        b_ub=h if m else None,
+        A_eq=A_eq,
+        b_eq=e if q else None,
+        bounds=bounds,
+        method="highs",
+    )
+    return float(r.fun) if r.status == 0 else math.inf
+
+
+def _collapse(G: np.ndarray, h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Rows with the same normal reduced to the tightest (the feasible set is unchanged)."""
+    if G.shape[0] < 2:
+        return G, h
+    unique, inverse = np.unique(G, axis=0, return_inverse=True)
+    if unique.shape[0] == G.shape[0]:
+        return G, h
+    tight = np.full(unique.shape[0], np.inf)
+    np.minimum.at(tight, np.asarray(inverse).reshape(-1), h)
+    return unique, tight
+
+
 def feasible(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> bool:
     """Whether ``G y <= h, E y = e`` has a solution (to :data:`FEASIBILITY_TOL`)."""
+    G, h = _collapse(np.asarray(G, dtype=float), np.asarray(h, dtype=float).reshape(-1))
     scale = 1.0 + max(
         float(np.max(np.abs(h))) if np.size(h) else 0.0,
         float(np.max(np.abs(e))) if np.size(e) else 0.0,

@@ -7,15 +7,20 @@ ratios. Then the solver's time for 6, 24 and 96 candidate fluids (growth should 
 Last, for every bundled case, the optimum alone beside the complete answer (alternatives per
 fluid and per preferred ratio, the diagnosis of each infeasible preferred ratio, the cost of
 every binding limit and the scale effects), against the 30 ms target for the complete answer.
+And the time and peak memory of cases with 10, 100 and 500 laboratory limits, both on quantities
+that scale alike (lengths: the rows collapse to the tightest) and on quantities with distinct
+scale laws (past 40 distinct rows the dual active-set solver takes over from the enumeration).
 
 Run: ``.venv/bin/python benchmarks/solve.py``
 """
 
 from __future__ import annotations
 
+import copy
 import math
 import time
 import tomllib
+import tracemalloc
 from pathlib import Path
 
 import numpy as np
@@ -165,6 +170,45 @@ def bundled() -> None:
         )
 
 
+def limits_case(n: int, distinct: bool):
+    data = tomllib.loads((ROOT / "cases" / "river_bend.toml").read_text())
+    data = copy.deepcopy(data)
+    quantities = data["prototype"]["quantities"]
+    for k in range(n):
+        name = f"feature_{k}"
+        if distinct:
+            a = k / max(n - 1, 1)
+            quantities[name] = {
+                "value": "10 m",
+                "scales_as": f"horizontal**{a:.6f} * vertical**{1 - a:.6f}",
+            }
+            data["limits"][name] = {"max": f"{2.0 + 0.001 * k:.3f} m"}
+        else:
+            quantities[name] = f"{100 + k} m"
+            data["limits"][name] = {"max": f"{20 + k} m"}
+    return case_from_dict(data, path=f"{n} limits")
+
+
+def many_limits() -> None:
+    """Time and peak memory (tracemalloc) of the complete answer with many limits."""
+    print()
+    print("many laboratory limits: the complete answer (targets: 500 limits < 1 s, < 300 MB)")
+    print(f"{'limits':>7s} {'kind':>9s} {'time [s]':>9s} {'peak [MB]':>10s}")
+    for distinct in (False, True):
+        for n in (10, 100, 500):
+            case = limits_case(n, distinct)
+            solve(case)
+            tracemalloc.start()
+            t = time.perf_counter()
+            solve(case)
+            elapsed = time.perf_counter() - t
+            peak = tracemalloc.get_traced_memory()[1]
+            tracemalloc.stop()
+            kind = "distinct" if distinct else "alike"
+            print(f"{n:7d} {kind:>9s} {elapsed:9.3f} {peak / 2**20:10.1f}")
+
+
 if __name__ == "__main__":
     main()
     bundled()
+    many_limits()

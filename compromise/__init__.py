@@ -30,7 +30,7 @@ _LAZY = {
     "case_from_dict": "compromise.casefile.load",
     "get_fluid": "compromise.physics.fluids",
     "derive_groups": "compromise.physics.groups",
-    "scale_table": "compromise.solving.design",
+    "scale_table": "compromise.solving.scales",
     "evaluate_design": "compromise.solving.design",
     "solve": "compromise.review.answer",
     "trace_front": "compromise.explore.tradeoffs",
@@ -48,7 +48,8 @@ if TYPE_CHECKING:  # pragma: no cover
     from compromise.physics.groups import derive_groups
     from compromise.review.answer import solve
     from compromise.review.effects import assess
-    from compromise.solving.design import evaluate_design, scale_table
+    from compromise.solving.design import evaluate_design
+    from compromise.solving.scales import scale_table
 
 
 def __getattr__(name: str) -> Any:

@@ -12,8 +12,33 @@ from pathlib import Path
 from typing import Annotated, Any
 
 import typer
+from typer.core import TyperCommand, TyperGroup
+
+
+def _as_flags(params: list[Any]) -> list[Any]:
+    """Boolean flags (``--json``, ``--help``) shown as flags in the help, without a type."""
+    for p in params:
+        if getattr(p, "is_flag", False) and not getattr(p, "count", False):
+            p.metavar = ""
+    return params
+
+
+class _Command(TyperCommand):
+    """A command whose help shows boolean flags as flags (not ``--json <bool>``)."""
+
+    def get_params(self, ctx: Any) -> list[Any]:
+        return _as_flags(super().get_params(ctx))
+
+
+class _Group(TyperGroup):
+    """The command group, with the same help for flags as :class:`_Command`."""
+
+    def get_params(self, ctx: Any) -> list[Any]:
+        return _as_flags(super().get_params(ctx))
+
 
 app = typer.Typer(
+    cls=_Group,
     name="compromise",
     help="Choose the length ratio, distortion, model fluid and temperature of a physical flow "
     "model inside a laboratory's limits, and defend the choice.",
@@ -115,18 +140,22 @@ def _pressure(text: str, option: str) -> float:
     return value
 
 
-@app.command()
+@app.command(cls=_Command)
 def check(case: CaseArg, json_out: JsonOpt = False) -> None:
     """Validate a case file and print what it says: quantities, groups, choices, limits."""
 
     def body() -> None:
         from compromise.presentation.tables import format_check
+        from compromise.review.phenomena_hint import phenomena_hint
         from compromise.solving.problem import prototype_group_values
 
         c = _load(case)
         summary = c.summary()
         values = prototype_group_values(c)
         summary["group_values"] = {k: float(v[0]) for k, v in values.items()}
+        hint = phenomena_hint(c)
+        if hint is not None:
+            summary["phenomena_hint"] = hint.to_dict()
         if json_out:
             _print_json(summary)
         else:
@@ -135,7 +164,7 @@ def check(case: CaseArg, json_out: JsonOpt = False) -> None:
     _guard(body)
 
 
-@app.command()
+@app.command(cls=_Command)
 def solve(
     case: CaseArg,
     json_out: JsonOpt = False,
@@ -176,7 +205,7 @@ def solve(
     raise typer.Exit(code or 0)
 
 
-@app.command()
+@app.command(cls=_Command)
 def scales(
     case: CaseArg,
     ratio: Annotated[str, typer.Option("--ratio", help="Horizontal length ratio, e.g. 1:25.")],
@@ -189,22 +218,29 @@ def scales(
         ),
     ] = None,
     velocity: Annotated[
-        str,
+        str | None,
         typer.Option(
             "--velocity",
             help="How velocity scales: 'froude', 'reynolds', another "
-            "group of the case kept exactly, or the velocity ratio itself.",
+            "group of the case kept exactly, or the velocity ratio itself (default: the "
+            "case's exact group).",
+            show_default=False,
         ),
-    ] = "froude",
+    ] = None,
     fluid: Annotated[
         str | None,
-        typer.Option("--fluid", help="Model fluid (default: the prototype's).", show_default=False),
+        typer.Option(
+            "--fluid",
+            help="Model fluid (default: the case's first model fluid).",
+            show_default=False,
+        ),
     ] = None,
     temperature: Annotated[
         str | None,
         typer.Option(
             "--temperature",
-            help="Model fluid temperature, e.g. '20 degC' (default: the prototype's).",
+            help="Model fluid temperature, e.g. '20 degC' (default: the prototype's, brought "
+            "inside the case's model range).",
             show_default=False,
         ),
     ] = None,
@@ -214,6 +250,14 @@ def scales(
             "--pressure", help="Model fluid pressure for a gas, e.g. '5 bar'.", show_default=False
         ),
     ] = None,
+    condition: Annotated[
+        str | None,
+        typer.Option(
+            "--condition",
+            help="The condition whose quantities and groups are shown (default: the first).",
+            show_default=False,
+        ),
+    ] = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Print the scale ratio of every kind of quantity, and the case's quantities and groups."""
@@ -221,7 +265,8 @@ def scales(
     def body() -> None:
         from compromise.errors import CaseError
         from compromise.presentation.tables import format_scales
-        from compromise.solving.design import scale_table
+        from compromise.review.wording import caution_line
+        from compromise.solving.scales import scale_table
         from compromise.units import parse_ratio
 
         c = _load(case)
@@ -233,8 +278,12 @@ def scales(
             vr = parse_ratio(vertical) if vertical is not None else None
         except ValueError as exc:
             raise CaseError(str(exc), key="--vertical") from None
-        vel: str | float = velocity
-        if velocity.lower() not in c.groups and velocity.lower() not in ("froude", "reynolds"):
+        vel: str | float | None = velocity
+        if (
+            velocity is not None
+            and velocity.lower() not in c.groups
+            and velocity.lower() not in ("froude", "reynolds")
+        ):
             try:
                 vel = parse_ratio(velocity)
             except ValueError:
@@ -254,26 +303,31 @@ def scales(
                 raise CaseError(str(exc), key="--fluid") from None
         t = _temperature(temperature, "--temperature") if temperature else None
         p = _pressure(pressure, "--pressure") if pressure else None
-        if f is not None or t is not None:
-            from compromise.errors import FluidRangeError
-            from compromise.physics.fluids import get_fluid
+        from compromise.errors import FluidRangeError
 
-            try:
-                get_fluid(f or c.fluid).check(
-                    t if t is not None else c.temperature, p if p is not None else c.pressure
-                )
-            except FluidRangeError as exc:
-                raise CaseError(str(exc), key="--temperature") from None
-        tab = scale_table(c, r, vertical=vr, velocity=vel, fluid=f, temperature=t, pressure=p)
+        try:
+            tab = scale_table(
+                c,
+                r,
+                vertical=vr,
+                velocity=vel,
+                fluid=f,
+                temperature=t,
+                pressure=p,
+                condition=condition if condition is not None else 0,
+            )
+        except FluidRangeError as exc:
+            raise CaseError(str(exc), key="--temperature") from None
+        data = {"title": c.title, "caution": caution_line(), **tab.to_dict()}
         if json_out:
-            _print_json(tab.to_dict())
+            _print_json(data)
         else:
-            typer.echo(format_scales(tab.to_dict()))
+            typer.echo(format_scales(data))
 
     _guard(body)
 
 
-@app.command()
+@app.command(cls=_Command)
 def fluids(
     temperature: Annotated[
         str, typer.Option("--temperature", help="Temperature, e.g. '20 degC'.")
@@ -308,6 +362,7 @@ def fluids(
                     "surface_tension",
                     "speed_of_sound",
                     "vapour_pressure",
+                    "estimated",
                 )
             }
         if json_out:
@@ -318,7 +373,7 @@ def fluids(
     _guard(body)
 
 
-@app.command()
+@app.command(cls=_Command)
 def groups(
     derive: Annotated[
         bool,
@@ -425,7 +480,7 @@ def groups(
     _guard(body)
 
 
-@app.command()
+@app.command(cls=_Command)
 def tolerance(
     case: CaseArg,
     quantity: Annotated[
@@ -452,8 +507,9 @@ def tolerance(
 
     def body() -> int:
         from compromise.errors import CaseError
-        from compromise.presentation.tables import format_solution, format_tolerance
-        from compromise.review.effects import apply_tolerance, reynolds_tolerance
+        from compromise.presentation.tables import format_tolerance
+        from compromise.review.tolerance import apply_tolerance, reynolds_tolerance
+        from compromise.review.wording import caution_line
 
         c = _load(case)
         text = within.strip()
@@ -464,22 +520,23 @@ def tolerance(
                 f"expected a tolerance such as '5%', got {within!r}", key="--within"
             ) from None
         res = reynolds_tolerance(c, quantity, tol)
-        data: dict[str, Any] = {"tolerance": res.to_dict()}
+        data: dict[str, Any] = {
+            "title": c.title,
+            "caution": caution_line(),
+            "tolerance": res.to_dict(),
+        }
         sol = None
         if apply:
             from compromise.review.answer import solve as run
 
-            c2, floor = apply_tolerance(c, res)
-            sol = run(c2)
-            data["floor"] = floor
+            floor = apply_tolerance(c, res)
+            sol = run(floor.case)
+            data["floor"] = floor.to_dict() | {"outcome": floor.outcome(sol.evaluation)}
             data["solution"] = sol.to_dict()
         if json_out:
             _print_json(data)
         else:
-            typer.echo(format_tolerance(data["tolerance"]))
-            if sol is not None:
-                typer.echo(f"\nWith the floor reynolds >= {data['floor']:.4g}:\n")
-                typer.echo(format_solution(sol.to_dict()))
+            typer.echo(format_tolerance(data))
         return 0 if sol is None or sol.feasible else 1
 
     code = _guard(body)
@@ -509,7 +566,7 @@ def _written(paths: list[Path]) -> str:
     return "Wrote: " + ", ".join(str(p) for p in paths)
 
 
-@app.command()
+@app.command(cls=_Command)
 def tradeoff(
     case: CaseArg,
     between: Annotated[
@@ -555,13 +612,14 @@ def tradeoff(
     def body() -> int:
         from compromise.explore.tradeoffs import trace_front
         from compromise.presentation.explore_tables import format_front, write_front
+        from compromise.review.provenance import stamped
 
         front = trace_front(
             _load(case), _axes_list(between, more), points=points, lift=not keep_limits
         )
         paths = write_front(front, out or Path("out") / case.stem)
         if json_out:
-            _print_json(front.to_dict())
+            _print_json(stamped(front.to_dict(), front.case))
         else:
             typer.echo(format_front(front))
             typer.echo("\n" + _written(paths))
@@ -571,7 +629,7 @@ def tradeoff(
     raise typer.Exit(code or 0)
 
 
-@app.command("map")
+@app.command("map", cls=_Command)
 def map_(
     case: CaseArg,
     axes: Annotated[
@@ -608,12 +666,13 @@ def map_(
     def body() -> int:
         from compromise.explore.designmap import design_map
         from compromise.presentation.explore_tables import format_map, write_map
+        from compromise.review.provenance import stamped
 
         names = _axes_list(axes, more)
         dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
         paths = write_map(dmap, out or Path("out") / case.stem)
         if json_out:
-            _print_json(dmap.to_dict())
+            _print_json(stamped(dmap.to_dict(), dmap.case))
         else:
             typer.echo(format_map(dmap))
             typer.echo("\n" + _written(paths))
@@ -623,7 +682,7 @@ def map_(
     raise typer.Exit(code or 0)
 
 
-@app.command()
+@app.command(cls=_Command)
 def sensitivity(
     case: CaseArg,
     spread: Annotated[
@@ -648,11 +707,12 @@ def sensitivity(
     def body() -> int:
         from compromise.explore.sensitivity import weight_sensitivity
         from compromise.presentation.explore_tables import format_sensitivity, write_sensitivity
+        from compromise.review.provenance import stamped
 
         sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
         paths = write_sensitivity(sens, out or Path("out") / case.stem)
         if json_out:
-            _print_json(sens.to_dict())
+            _print_json(stamped(sens.to_dict(), sens.case))
         else:
             typer.echo(format_sensitivity(sens))
             typer.echo("\n" + _written(paths))

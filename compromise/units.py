@@ -46,7 +46,78 @@ def registry() -> Any:
 
     ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     ureg.formatter.default_format = "~P"
+    for definition in TRADE_UNITS:
+        ureg.define(definition)
     return ureg
+
+
+#: Discharge units of the trade that pint does not know by these names. The US gallon is
+#: 231 in^3 and the foot 0.3048 m, both exact by definition (NIST Special Publication 811,
+#: 2008 edition, appendix B; from memory), so each factor below is exact.
+TRADE_UNITS: tuple[str, ...] = (
+    "cubic_feet_per_second = foot ** 3 / second = cfs = _ = CFS",
+    "gallons_per_minute = gallon / minute = gpm = _ = GPM",
+    "million_gallons_per_day = 1e6 * gallon / day = mgd = _ = MGD",
+    "cubic_metres_per_second = meter ** 3 / second = cumec",
+    "litres_per_second = liter / second = lps",
+)
+
+#: Units a case file commonly means, for the "did you mean" of an error message.
+COMMON_UNITS: tuple[str, ...] = (
+    "m", "mm", "cm", "km", "ft", "in", "s", "min", "h", "day", "kg", "g", "t",
+    "m^2", "m^3", "L", "m/s", "ft/s", "m^3/s", "L/s", "cfs", "gpm", "mgd", "m^2/s",
+    "Pa", "kPa", "MPa", "bar", "atm", "psi", "N", "kN", "N/m", "Pa*s", "kg/m^3",
+    "degC", "degF", "K", "Hz",
+)  # fmt: skip
+
+#: Temperature units written the way people say them; pint reads "C" as the coulomb and "F" as
+#: the farad.
+_TEMPERATURE_SPELLINGS = {
+    "c": "degC",
+    "deg c": "degC",
+    "deg. c": "degC",
+    "degrees c": "degC",
+    "degree c": "degC",
+    "oc": "degC",
+    "f": "degF",
+    "deg f": "degF",
+    "degrees f": "degF",
+    "degree f": "degF",
+    "of": "degF",
+}
+
+
+def unit_hint(number: str, unit_text: str) -> str:
+    """A ``"; did you mean '12 degC'?"`` suffix for a unit that was not understood ('' if none).
+
+    Examples
+    --------
+    >>> unit_hint("12", "C")
+    "; did you mean '12 degC'?"
+    >>> unit_hint("30", "m3/s")
+    "; did you mean '30 m^3/s'?"
+    """
+    text = unit_text.strip()
+    spelled = _TEMPERATURE_SPELLINGS.get(" ".join(text.lower().split()))
+    if spelled:
+        return f"; did you mean '{number} {spelled}'?"
+    # exponents written without a caret: m3/s, m2, s-1
+    powered = re.sub(r"(?<=[A-Za-z])(-?\d+)", r"^\1", text)
+    if powered != text and _known(powered):
+        return f"; did you mean '{number} {powered}'?"
+    folded = {u.lower(): u for u in COMMON_UNITS}.get(text.lower())
+    if folded and folded != text:
+        return f"; did you mean '{number} {folded}'?"
+    return ""
+
+
+def _known(unit_text: str) -> bool:
+    """Whether pint reads ``unit_text`` as a unit of compromise's base dimensions."""
+    try:
+        unit = registry().Unit(unit_text.replace("^", "**"))
+    except Exception:  # pint raises several kinds; all mean "not a unit"
+        return False
+    return all(k in BASE_DIMENSIONS for k in unit.dimensionality)
 
 
 def dimension_name(dim: tuple[int, ...]) -> str:
@@ -93,16 +164,22 @@ def parse_quantity(text: str | float | int) -> tuple[float, tuple[int, int, int,
     if unit_text in ("", "%"):
         value = number / 100.0 if unit_text == "%" else number
         return value, (0, 0, 0, 0), unit_text
+    written = m.group(2).strip()
     try:
         unit = ureg.Unit(unit_text)
     except Exception as exc:  # pint raises several kinds; all mean "not a unit"
-        raise ValueError(f"unknown unit {m.group(2).strip()!r} in {text!r}") from exc
+        hint = unit_hint(m.group(1), written)
+        raise ValueError(f"unknown unit {written!r} in {text!r}{hint}") from exc
     q = ureg.Quantity(number, unit)
     dims = q.dimensionality
     vec = tuple(int(dims.get(b, 0)) for b in BASE_DIMENSIONS)
     other = [k for k in dims if k not in BASE_DIMENSIONS]
     if other:
-        raise ValueError(f"unsupported dimension {other} in {text!r}")
+        hint = unit_hint(m.group(1), written)
+        raise ValueError(
+            f"unit {written!r} in {text!r} has the dimension {dims}, outside mass, length, "
+            f"time and temperature{hint}"
+        )
     base = q.to_base_units()
     return float(base.magnitude), vec, str(m.group(2).strip())  # type: ignore[return-value]
 

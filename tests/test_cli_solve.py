@@ -106,8 +106,19 @@ def test_fluids_command_json():
     assert r.exit_code == 0, r.output
     d = json.loads(r.output)
     water = d["water"]
-    assert abs(water["kinematic_viscosity"] - 1.0034e-6) < 1e-10  # IAPWS, 20 degC
+    # the command lists the catalogue's own values (validated in tests/test_fluids.py)
+    from compromise.physics.fluids import get_fluid
+
+    direct = get_fluid("water").properties(293.15).kinematic_viscosity
+    assert water["kinematic_viscosity"] == direct
     assert d["air"]["surface_tension"] is None
+    # glycerol-water surface tension is an estimate, and both outputs say so
+    assert water["estimated"] == {}
+    assert "estimate" in d["glycerol-water 20%"]["estimated"]["surface_tension"]
+    text = RUNNER.invoke(app, ["fluids", "--temperature", "20 degC"]).output
+    row = next(line for line in text.splitlines() if line.startswith("glycerol-water 20%"))
+    assert row.rstrip().endswith("-") and " *" in row
+    assert "* surface tension of glycerol-water 20%" in text and "from memory =" in text
 
 
 def test_groups_derive_pipe_flow():

@@ -253,7 +253,7 @@ def test_pipe_pressure_drop_automatic_repeating_is_complete() -> None:
     assert _rank(both) == 4
 
 
-def test_sphere_drag_two_groups_white2011_example5_1() -> None:
+def test_sphere_drag_two_groups_white2011_ch5() -> None:
     # White (2011), ch. 5, from memory: F/(rho V^2 D^2) = f(rho V D / mu)
     groups = derive_groups(SPHERE, ["rho", "V", "D"])
     assert [g.to_text() for g in groups] == ["F / (rho * V**2 * D**2)", "mu / (rho * V * D)"]

@@ -22,7 +22,7 @@ import pytest
 from numpy.testing import assert_allclose
 
 from compromise.casefile.load import case_from_dict
-from compromise.solving.design import scale_table
+from compromise.solving.scales import scale_table
 
 
 def _river(quantities: dict, **model) -> object:
@@ -61,20 +61,21 @@ def froude_25():
         ("manning_n", 1 / 6),
     ],
 )
-def test_froude_ratios_chanson1999_table14(froude_25, kind, n_power):
+def test_froude_ratios_chanson1999_ch14(froude_25, kind, n_power):
     # Chanson (1999) ch. 14 / Hughes (1993) ch. 2: ratio = (1/25)^power, same fluid
     assert_allclose(froude_25.ratios[kind], 25.0**-n_power, rtol=1e-12)
 
 
-def test_froude_ratios_at_1_25_printed_values(froude_25):
-    # the check values at N = 25: V, t = 1/5; Q = 1/3125; F = 1/15625; P = 1/78125; n = 1/1.710
+def test_froude_ratios_at_1_25_by_hand(froude_25):
+    # the laws above worked out by hand at N = 25 (not printed values): V, t = 1/5;
+    # Q = 1/3125; F = 1/15625; P = 1/78125; n = 1/25^(1/6) = 1/1.710 (rounded to 4 digits)
     r = froude_25.ratios
     assert_allclose(
         [1 / r["velocity"], 1 / r["time"], 1 / r["discharge"], 1 / r["force"], 1 / r["power"]],
         [5, 5, 3125, 15625, 78125],
         rtol=1e-12,
     )
-    assert_allclose(1 / r["manning_n"], 1.710, atol=5e-4)  # printed to 4 digits
+    assert_allclose(1 / r["manning_n"], 1.710, atol=5e-4)
     for kind in ("slope", "chezy_c", "darcy_f", "acceleration"):
         assert_allclose(r[kind], 1.0, rtol=1e-12)
 
@@ -109,7 +110,10 @@ def test_distorted_model_ratios_river_exercise(distorted):
     assert_allclose(r["velocity"], 1 / 10, rtol=1e-12)
     assert_allclose(r["discharge"], 2.0e-6, rtol=1e-12)
     assert_allclose(r["slope"], 5.0, rtol=1e-12)
+    # wide-channel Manning n: Y^2/3 X^-1/2; with the exercise's n = 0.021 the model needs
+    # 0.021 x 0.04642 x 22.36 = 0.0218 (computed by hand from the law, not a printed answer)
     assert_allclose(r["manning_n"], (1 / 100) ** (2 / 3) * (1 / 500) ** -0.5, rtol=1e-12)
+    assert_allclose(0.021 * r["manning_n"], 0.0218, atol=5e-5)
     assert_allclose(r["cross_section_area"], 1 / 500 / 100, rtol=1e-12)
     assert_allclose(r["chezy_c"], math.sqrt(1 / 5), rtol=1e-12)  # (X/Y)^1/2
     assert_allclose(r["darcy_f"], 5.0, rtol=1e-12)  # Y/X: the model must be rougher
@@ -122,8 +126,6 @@ def test_distorted_model_values_river_exercise(distorted):
     assert_allclose(q["width"].model, 0.24, rtol=1e-12)  # 120 m at 1:500
     assert_allclose(q["discharge"].model, 3.0e-3, rtol=1e-12)  # 1500 m^3/s x 2e-6
     assert_allclose(q["slope"].model, 0.0016, rtol=1e-12)
-    # wide-channel Manning n needed in the model: 0.021 x Y^2/3 X^-1/2 = 0.0218 (printed)
-    assert_allclose(0.021 * distorted.ratios["manning_n"], 0.0218, atol=5e-5)
     # Froude number kept (velocity on the vertical scale)
     assert abs(distorted.evaluation.conditions[0].groups["froude"].mismatch) < 1e-12
 
@@ -165,8 +167,9 @@ def test_scale_table_json_keys(froude_25):
 
 
 def test_conventional_names_scale_by_their_law():
-    # a bare slope scales as Y/X and a bare Manning n as Y^(2/3) X^(-1/2) under Froude
-    # (Chanson 1999, ch. 14, from memory), without scales_as
+    # behaviour: a bare slope and a bare Manning n, given without scales_as, follow the laws of
+    # the table's slope and manning_n rows (Y/X and Y^(2/3) X^(-1/2) under Froude, checked
+    # against the river exercise above)
     case = _river(
         {
             "depth": {"value": "5 m", "axis": "vertical"},
@@ -177,5 +180,5 @@ def test_conventional_names_scale_by_their_law():
     )
     t = scale_table(case, 1 / 500, vertical=1 / 100)
     q = t.evaluation.conditions[0].quantities
-    assert_allclose(q["slope"].ratio, 5.0, rtol=1e-12)
-    assert_allclose(q["manning_n"].model, 0.0218, atol=5e-5)
+    assert_allclose(q["slope"].ratio, t.ratios["slope"], rtol=1e-12)
+    assert_allclose(q["manning_n"].ratio, t.ratios["manning_n"], rtol=1e-12)

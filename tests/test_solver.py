@@ -1031,9 +1031,10 @@ def test_bundled_froude_cases_are_covered() -> None:
     assert {"river_bend", "spillway", "towing_tank"} <= names
 
 
-def test_wind_tunnel_mach_below_incompressible_limit_white2011() -> None:
-    """Mach <= 0.3 keeps density changes below about 5 % (White, F. M. (2011). Fluid
-    Mechanics, 7th ed., section 9.3; from memory)."""
+def test_wind_tunnel_mach_respects_the_case_ceiling() -> None:
+    """The case's own ceiling on the model Mach number holds at the optimum, and the Mach
+    number is the model speed over the model gas's speed of sound (behaviour; the 0.3 limit's
+    physics is tested with the compressibility threshold in tests/test_effects.py)."""
     case, sol = bundled(ROOT / "cases" / "wind_tunnel.toml")
     assert sol.design is not None
     mach = evaluate_design(case, sol.design).conditions[0].groups["mach"].model
@@ -1043,4 +1044,6 @@ def test_wind_tunnel_mach_below_incompressible_limit_white2011() -> None:
         .speed_of_sound
     )
     assert_allclose(mach, 70.0 * sol.design.velocity_ratio / c, rtol=1e-12)
-    assert mach <= 0.3 * (1 + FEASIBILITY)
+    ceiling = case.groups["mach"].max
+    assert ceiling is not None
+    assert mach <= ceiling * (1 + FEASIBILITY)

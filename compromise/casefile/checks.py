@@ -30,7 +30,7 @@ from compromise.casefile.model import (
     fraction_text,
 )
 from compromise.errors import CaseError, ExpressionError, FluidRangeError, UnknownFluidError
-from compromise.physics.scaling import BASIS, DERIVED_KINDS, INDEX, default_scaling
+from compromise.physics.scaling import BASIS, INDEX, default_scaling, named_scaling
 from compromise.units import dimension_name, parse_quantity, parse_ratio, si_unit
 
 
@@ -199,21 +199,15 @@ def check_quantity(L: Loader, name: str, entry: Any, key: str) -> Quantity | Non
         if axis == "section" and dim != (0, 2, 0, 0):
             L.error(f"{key}.axis", "only an area can have axis 'section'; use scales_as")
             return None
-        if name in CONVENTIONAL_SCALINGS and dim == (0, 0, 0, 0):
-            # a bare slope or Manning n scales by its law, not as a plain number
-            scaling = DERIVED_KINDS[name][0].copy()
-        else:
+        # a bare slope, Manning n or a shear velocity scales by its law, not by its dimension
+        # (physics.scaling.NAMED_QUANTITY_LAWS)
+        scaling = named_scaling(name, dim)
+        if scaling is None:
             scaling = default_scaling(dim, axis)
         if scaling is None:
             L.error(key, f"cannot scale a {dimension_name(dim)} by its dimension; give scales_as")
             return None
     return Quantity(name, si, dim, si_unit(dim), scaling, axis, scales_as, description)
-
-
-#: Dimensionless quantities whose name says how they scale (see scaling.DERIVED_KINDS):
-#: a slope as Y/X; a Manning n as Y^(7/6) X^(-1/2) / V (wide channel; Y^(2/3) X^(-1/2) under
-#: Froude); a Darcy f as Y^2 / (X V^2).
-CONVENTIONAL_SCALINGS = ("slope", "manning_n", "darcy_f")
 
 
 def check_scales_as(L: Loader, text: str, key: str) -> np.ndarray | None:
@@ -495,6 +489,9 @@ def check_phenomena(
                     f"'{name}' uses no quantity '{conv}'; it uses {', '.join(needed)}",
                 )
                 continue
+            if isinstance(target, str) and target in L.rejected:
+                aliases[conv] = target  # already reported where it is defined
+                continue
             if not isinstance(target, str) or target not in quantities:
                 L.error(
                     f"{key}.{conv}",
@@ -504,6 +501,8 @@ def check_phenomena(
             aliases[conv] = target
         for conv in needed:
             target = aliases.get(conv, conv)
+            if target in L.rejected:
+                break  # the quantity itself was reported; one problem, one message
             if target not in quantities:
                 L.error(
                     key,

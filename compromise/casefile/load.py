@@ -8,6 +8,8 @@ expected; all problems of one file are gathered into one :class:`~compromise.err
 from __future__ import annotations
 
 import difflib
+import hashlib
+import json
 import tomllib
 from collections.abc import Mapping
 from pathlib import Path
@@ -71,13 +73,31 @@ def load_case(path: str | Path) -> Case:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise CaseErrors([CaseError(f"TOML syntax error: {exc}", file=shown)]) from None
-    return case_from_dict(data, path=shown)
+    return case_from_dict(data, path=shown, source_sha256=hashlib.sha256(raw).hexdigest())
 
 
-def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
+def canonical_sha256(data: Mapping[str, Any]) -> str:
+    """SHA-256 (hex) of a case dictionary's canonical JSON: keys sorted, no spaces, UTF-8.
+
+    Two dictionaries with the same content give the same hash whatever their key order; values
+    JSON cannot hold (TOML dates) are written as their text.
+
+    Examples
+    --------
+    >>> canonical_sha256({"b": 1, "a": [1, 2]}) == canonical_sha256({"a": [1, 2], "b": 1})
+    True
+    """
+    text = json.dumps(data, sort_keys=True, separators=(",", ":"), ensure_ascii=False, default=str)
+    return hashlib.sha256(text.encode("utf-8")).hexdigest()
+
+
+def case_from_dict(
+    data: Mapping[str, Any], *, path: str = "<case>", source_sha256: str | None = None
+) -> Case:
     """Check a case given as a dictionary (as parsed from TOML) and convert it to SI.
 
-    See :func:`load_case`.
+    See :func:`load_case`. ``source_sha256`` is the hash of the file the dictionary came from;
+    without it the case carries :func:`canonical_sha256` of the dictionary.
     """
 
     L = Loader(path)
@@ -229,8 +249,7 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
         if "min" in parsed and "max" in parsed and parsed["min"] > parsed["max"]:
             L.error(key, "min is greater than max")
 
-    if L.errors:
-        raise CaseErrors(L.errors)
+    # phenomena (checked with the rest, so every problem of the file is reported in one pass)
     phenomena = check_phenomena(L, data.get("phenomena", []), quantities)
     if L.errors:
         raise CaseErrors(L.errors)
@@ -247,4 +266,5 @@ def case_from_dict(data: Mapping[str, Any], *, path: str = "<case>") -> Case:
         groups=groups,
         model=model,
         limits=tuple(limits),
+        source_sha256=source_sha256 or canonical_sha256(data),
     )

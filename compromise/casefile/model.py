@@ -156,6 +156,10 @@ class Case:
     description: str = ""
     #: phenomenon -> {conventional quantity name: the case's quantity name}
     phenomena: Mapping[str, Mapping[str, str]] = field(default_factory=dict)
+    #: SHA-256 (hex) of the case file's bytes; for a case given as a dictionary, of its
+    #: canonical JSON (:func:`compromise.casefile.load.canonical_sha256`). Outputs and figures
+    #: carry it so a result can be traced to the exact file it came from.
+    source_sha256: str = ""
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""
@@ -185,6 +189,7 @@ class Case:
         m = self.model
         return {
             "title": self.title,
+            "source_sha256": self.source_sha256,
             "prototype": {
                 "fluid": self.fluid,
                 "temperature": to_celsius(self.temperature),

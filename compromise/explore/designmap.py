@@ -139,8 +139,10 @@ class DesignMap:
     def to_dict(self) -> dict[str, Any]:
         """Plain data (SI, degC, ratios model/prototype); the grid as nested lists."""
 
-        def opt(v: float) -> float | None:
-            return float(v) if math.isfinite(v) else None
+        from compromise.solving.result import denoise
+
+        def opt(v: float) -> float | None:  # a mismatch below the solver's noise is 0
+            return denoise(float(v)) if math.isfinite(v) else None
 
         return {
             "title": self.case.title,

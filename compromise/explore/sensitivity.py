@@ -6,6 +6,15 @@ is found twice over: restricted to each candidate design (a model fluid at a pre
 each fluid alone when the case lists no preferred ratio), to count how often each candidate is
 the best; and unrestricted, to give the range of every decision variable.
 
+Candidates whose mismatches are equal within :data:`TIE_ABS` in a sample are tied there: none
+of them wins it. The grid and zoom settle an objective to about 1e-5; every candidate within
+:data:`REFINE_BAND` of a sample's best is searched again with a finer zoom before the
+comparison, so that candidates that are exactly tied (several fluids that all match every group)
+are reported as tied rather than split by the search's residue.
+
+With fewer than two weighted groups, a weight factor scales every candidate's mismatch alike and
+cannot change which is best; the result says so (:attr:`Sensitivity.note`).
+
 A sample changes only the weights, so only the Hessian of the convex subproblems
 (:mod:`compromise.solving.problem`) changes; the candidate active sets do not. The KKT systems of
 every
@@ -30,11 +39,14 @@ from compromise.explore.envelope import StateSpace, lower_envelope
 from compromise.solving.grid import REGULARISATION, FluidStates
 from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import FEASIBILITY_TOL
+from compromise.solving.result import denoise
 
 CHUNK = 250  # samples per batch
 N_TEMPERATURES = 12
 ZOOM_ROUNDS = 3
 TIE_ABS = 1e-6  # [-] objectives closer than this are equal: a 0.1 % mismatch, below measurement
+REFINE_BAND = 1e-4  # [-] candidates this close to a sample's best (plus 1e-3 of it) are refined
+REFINE_ZOOM_ROUNDS = 8  # the zoom of the refinement: a 1 K cell resolved to about 2e-5 K
 VARIABLES = (
     ("horizontal_ratio", "-"),
     ("vertical_ratio", "-"),
@@ -177,11 +189,16 @@ class Candidate:
         The preferred horizontal ratio [-] (None: free).
     label : str
     wins : int
-        Samples in which it is the best candidate.
+        Samples in which it alone is the best candidate.
     share : float
         ``wins / samples`` [-].
     nominal_objective : float
         Its weighted mismatch at the case's own weights [-] (inf when infeasible).
+    ties : int
+        Samples in which it is best together with other candidates (tied within
+        :data:`TIE_ABS`).
+    tie_share : float
+        ``ties / samples`` [-].
     """
 
     fluid: str
@@ -190,9 +207,11 @@ class Candidate:
     wins: int
     share: float
     nominal_objective: float
+    ties: int = 0
+    tie_share: float = 0.0
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data."""
+        """Plain data; a mismatch below the noise is 0."""
         obj = self.nominal_objective
         return {
             "fluid": self.fluid,
@@ -200,7 +219,9 @@ class Candidate:
             "label": self.label,
             "wins": self.wins,
             "share": self.share,
-            "nominal_objective": obj if math.isfinite(obj) else None,
+            "ties": self.ties,
+            "tie_share": self.tie_share,
+            "nominal_objective": denoise(obj) if math.isfinite(obj) else None,
         }
 
 
@@ -243,7 +264,8 @@ class Sensitivity:
         The weighted groups whose weights vary.
     candidates : tuple of Candidate
     nominal : int
-        Index of the best candidate at the case's own weights (-1: none feasible).
+        Index of the best candidate at the case's own weights (-1: none feasible); among tied
+        candidates, the one listed first (the solver's choice).
     ranges : tuple of VariableRange
         Of the unrestricted optimum.
     fluid_shares : dict
@@ -255,6 +277,14 @@ class Sensitivity:
     optima : numpy.ndarray
         (samples, len(ranges)) the unrestricted optimum's decision variables, in the order
         and units of ``ranges``.
+    nominal_tied : tuple of int
+        Indices of the candidates tied for best at the case's own weights (one: no tie).
+    tied_samples : int
+        Samples in which two or more candidates tie for best.
+    note : str
+        Why the weights cannot change the answer ('' when they can).
+    best_sets : numpy.ndarray
+        (samples, candidates) which candidates are best (tied for best) in each sample.
     """
 
     case: Case = field(repr=False)
@@ -269,6 +299,10 @@ class Sensitivity:
     factors: np.ndarray = field(repr=False)
     winners: np.ndarray = field(repr=False)
     optima: np.ndarray = field(repr=False)
+    nominal_tied: tuple[int, ...] = ()
+    tied_samples: int = 0
+    note: str = ""
+    best_sets: np.ndarray | None = field(default=None, repr=False)
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data (ratios model/prototype, temperatures in degC)."""
@@ -278,11 +312,38 @@ class Sensitivity:
             "samples": self.samples,
             "seed": self.seed,
             "groups": list(self.groups),
+            "note": self.note,
             "candidates": [c.to_dict() for c in self.candidates],
             "nominal": self.candidates[self.nominal].label if self.nominal >= 0 else None,
+            "nominal_tied": [self.candidates[i].label for i in self.nominal_tied],
+            "tied_samples": self.tied_samples,
+            "tie_tolerance": TIE_ABS,
             "ranges": {r.name: r.to_dict() for r in self.ranges},
             "fluid_shares": dict(self.fluid_shares),
         }
+
+
+def weights_note(groups: tuple[str, ...]) -> str:
+    """Why weight factors cannot change the answer ('' when they can).
+
+    Examples
+    --------
+    >>> weights_note(("reynolds", "weber"))
+    ''
+    >>> weights_note(("reynolds",))[:35]
+    'One weighted group only (reynolds):'
+    """
+    if len(groups) >= 2:
+        return ""
+    if not groups:
+        return (
+            "No weighted group: every group is exact or has weight 0, so there is no weight "
+            "to vary and the analysis cannot change the answer."
+        )
+    return (
+        f"One weighted group only ({groups[0]}): a factor on its weight scales every "
+        "candidate's mismatch alike, so the analysis cannot change the answer."
+    )
 
 
 def weight_sensitivity(
@@ -332,11 +393,15 @@ def weight_sensitivity(
         wins_obj.append(J), opt_y.append(y), opt_T.append(np.column_stack([T, P]))
         opt_fluid.append(fl)
     J = np.vstack(wins_obj)  # (1 + samples, candidates)
+    J = _refine(free, fixed, problem.W * all_f, J, spaces, ratios)
     winners = _winners(J)
+    best = _tied(J)  # (1 + samples, candidates): tied for best
+    alone = best.sum(axis=1) == 1
     y, TP, fl = np.vstack(opt_y), np.vstack(opt_T), np.concatenate(opt_fluid)
     labels = _labels(case, ratios)
     n_c = J.shape[1]
-    counts = np.bincount(winners[1:][winners[1:] >= 0], minlength=n_c)
+    counts = best[1:][alone[1:]].sum(axis=0)
+    ties = best[1:][~alone[1:]].sum(axis=0)
     cands = tuple(
         Candidate(
             case.model.fluids[c // len(ratios)],
@@ -345,6 +410,8 @@ def weight_sensitivity(
             int(counts[c]),
             float(counts[c] / samples),
             float(J[0, c]),
+            int(ties[c]),
+            float(ties[c] / samples),
         )
         for c in range(n_c)
     )
@@ -363,6 +430,10 @@ def weight_sensitivity(
         factors,
         winners[1:],
         optima,
+        tuple(int(i) for i in np.flatnonzero(best[0])),
+        int(np.sum(best[1:].sum(axis=1) > 1)),
+        weights_note(problem.objective_groups),
+        best[1:],
     )
 
 
@@ -372,12 +443,40 @@ def _labels(case: Case, ratios: list[float | None]) -> list[str]:
     return [f if r is None else f"{f} {format_ratio(r)}" for f in case.model.fluids for r in ratios]
 
 
+def _tied(J: np.ndarray) -> np.ndarray:
+    """(rows, candidates) mask of the candidates tied for best in each row (none if every
+    candidate is infeasible)."""
+    low = np.min(J, axis=1, keepdims=True)
+    return np.isfinite(J) & (J <= low + TIE_ABS + 1e-9 * np.abs(low))
+
+
 def _winners(J: np.ndarray) -> np.ndarray:
     """Best candidate per row; among equal objectives the one listed first."""
+    tied = _tied(J)
+    return np.where(tied.any(axis=1), np.argmax(tied, axis=1), -1)
+
+
+def _refine(
+    free: WeightedQP,
+    fixed: WeightedQP | None,
+    W: np.ndarray,
+    J: np.ndarray,
+    spaces: list[StateSpace],
+    ratios: list[float | None],
+) -> np.ndarray:
+    """``J`` (rows, candidates) with every row where two or more candidates are near the best
+    solved again with a finer zoom (see the module docstring)."""
     low = np.min(J, axis=1, keepdims=True)
-    tied = J <= low + TIE_ABS + 1e-9 * np.abs(low)
-    out = np.argmax(tied, axis=1)
-    return np.where(np.isfinite(low[:, 0]), out, -1)
+    near = np.isfinite(J) & (J <= low + REFINE_BAND + 1e-3 * np.abs(low))
+    rows = np.flatnonzero(near.sum(axis=1) > 1)
+    if rows.size == 0:
+        return J
+    out = J.copy()
+    for a in range(0, rows.size, CHUNK):
+        r = rows[a : a + CHUNK]
+        fine = _restricted(free, fixed, W[r], spaces, ratios, zoom_rounds=REFINE_ZOOM_ROUNDS)
+        out[r] = np.minimum(out[r], fine)
+    return out
 
 
 def _blocks(items: np.ndarray, n: int) -> tuple[np.ndarray, int]:
@@ -393,6 +492,8 @@ def _restricted(
     W: np.ndarray,
     spaces: list[StateSpace],
     ratios: list[float | None],
+    *,
+    zoom_rounds: int = ZOOM_ROUNDS,
 ) -> np.ndarray:
     """Weighted mismatch (S, fluids x ratios) of each candidate's best design."""
     qp = free if fixed is None else fixed
@@ -408,7 +509,7 @@ def _restricted(
 
     fluid = np.tile(np.repeat(np.arange(len(spaces)), len(ratios)), W.shape[0])
     _, _, J = lower_envelope(
-        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=ZOOM_ROUNDS
+        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=zoom_rounds
     )
     return J.reshape(W.shape[0], n_c)
 

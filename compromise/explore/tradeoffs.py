@@ -277,7 +277,15 @@ class Front:
         return np.array([pt.values for pt in self.points]).reshape(len(self.points), len(self.axes))
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data following the output contract of ``compromise tradeoff --json``."""
+        """Plain data following the output contract of ``compromise tradeoff --json``; a
+        mismatch (a dimensionless axis) below the solver's noise is 0."""
+        from compromise.solving.result import denoise
+
+        def shown(values: tuple[float, ...]) -> list[float]:
+            return [
+                denoise(v) if a.unit == "-" else v for a, v in zip(self.axes, values, strict=True)
+            ]
+
         return {
             "title": self.case.title,
             "axes": list(self.names),
@@ -285,10 +293,10 @@ class Front:
             "labels": [a.label for a in self.axes],
             "minimised": self.primary,
             "lifted": {a.name: a.case_bound for a in self.axes if a.lifted},
-            "points": [pt.to_dict() for pt in self.points],
+            "points": [{**pt.to_dict(), "values": shown(pt.values)} for pt in self.points],
             "knee": self.knee if self.knee >= 0 else None,
             "chosen": self.chosen.design.to_dict() if self.chosen else None,
-            "chosen_values": list(self.chosen.values) if self.chosen else None,
+            "chosen_values": shown(self.chosen.values) if self.chosen else None,
         }
 
     def to_frame(self) -> Any:

@@ -108,7 +108,8 @@ def seawater_surface_tension_nayar(temperature: Any, salinity: Any) -> Any:
     r"""Surface tension of seawater against air [N/m], Nayar et al. (2014).
 
     :math:`\sigma = \sigma_w (1 + 3.766\times10^{-4} S + 2.347\times10^{-6} S t)`, S in g/kg,
-    t in degC, :math:`\sigma_w` IAPWS R1-76(2014). Valid 0-90 degC, 0-131 g/kg (from memory).
+    t in degC, :math:`\sigma_w` IAPWS R1-76(2014). Valid 0-90 degC, 0-131 g/kg. The
+    coefficients and the range are from memory (not checked against the paper).
 
     Parameters
     ----------
@@ -264,13 +265,25 @@ def glycerol_water_density_volk_kahler(temperature: Any, mass_fraction: Any) -> 
     return kappa * (rho_g * cv + rho_w * (1.0 - cv))
 
 
+#: What every output that shows a glycerol-water surface tension says about it.
+GLYCEROL_WATER_SIGMA_NOTE = (
+    "an estimate, not a published correlation: linear in mass fraction between water "
+    "(IAPWS R1-76) and glycerol (63.4 mN/m at 20 degC, from memory); real mixtures may lie "
+    "a few mN/m off this line"
+)
+
+
 def glycerol_water_surface_tension(temperature: Any, mass_fraction: Any) -> Any:
-    r"""Surface tension of glycerol-water mixtures [N/m]: an approximation.
+    r"""Surface tension of glycerol-water mixtures [N/m]: an estimate, not a correlation.
 
     Linear in mass fraction, :math:`\sigma = (1 - C_m)\sigma_w + C_m \sigma_g`, with
     :math:`\sigma_w` from IAPWS R1-76(2014) and :math:`\sigma_g = 63.4 - 0.0598 (t - 20)`
-    mN/m (from memory: 63.4 mN/m at 20 degC, CRC Handbook; slope after Jasper 1972). Real
-    mixtures lie up to about 2 mN/m above the line (from memory); an estimate only.
+    mN/m. No published source for the mixture was checked: the mixing rule is an assumption,
+    glycerol's 63.4 mN/m at 20 degC is recalled from the CRC Handbook of Chemistry and Physics
+    and its slope from Jasper (1972), both from memory, and measured mixtures are recalled to
+    lie up to about 2 mN/m above the line (from memory). Every output that shows it says so
+    (:data:`GLYCEROL_WATER_SIGMA_NOTE`); the fluid catalogue lists it under
+    ``Fluid.estimated``.
 
     Parameters
     ----------
@@ -279,8 +292,9 @@ def glycerol_water_surface_tension(temperature: Any, mass_fraction: Any) -> Any:
 
     References
     ----------
-    IAPWS R1-76(2014); Jasper (1972), The surface tension of pure liquid compounds,
-    J. Phys. Chem. Ref. Data 1, 841 (from memory).
+    IAPWS R1-76(2014) for water; for glycerol (from memory, not checked): CRC Handbook of
+    Chemistry and Physics; Jasper, J. J. (1972), The surface tension of pure liquid compounds,
+    J. Phys. Chem. Ref. Data 1, 841.
     """
     t = np.asarray(temperature, dtype=float) - ZERO_CELSIUS
     cm = np.asarray(mass_fraction, dtype=float)

@@ -35,6 +35,7 @@ from compromise.errors import FluidRangeError, UnknownFluidError
 from compromise.physics.correlations import (
     _SP_PER_SA,
     ATMOSPHERE,
+    GLYCEROL_WATER_SIGMA_NOTE,
     STANDARD_SALINITY,
     glycerol_water_density_volk_kahler,
     glycerol_water_surface_tension,
@@ -50,6 +51,14 @@ from compromise.physics.correlations import (
 from compromise.units import ZERO_CELSIUS
 
 TABLE_KEYS = ("rho", "mu", "nu", "sigma", "c")
+#: FluidProperties field -> the symbol expressions use for it.
+PROPERTY_SYMBOLS = {
+    "density": "rho",
+    "dynamic_viscosity": "mu",
+    "kinematic_viscosity": "nu",
+    "surface_tension": "sigma",
+    "speed_of_sound": "c",
+}
 PROPERTIES_CACHE = 4096  # states kept per fluid by Fluid.properties
 _TABLE_TOLERANCE = 1e-5  # [-] log-space error allowed at every interval midpoint when building
 GAS_T_MAX = 400.0  # [K] upper end of the catalogue for gases: laboratory temperatures
@@ -93,9 +102,13 @@ class FluidProperties:
     """[m/s]; None where the catalogue has no model."""
     vapour_pressure: float | None
     """[Pa]; None where it does not apply (gases) or no model is given."""
+    estimated: tuple[tuple[str, str], ...] = ()
+    """(property, why) for each property that is an estimate rather than a published model,
+    e.g. ``("surface_tension", ...)`` for glycerol-water; empty for every other fluid."""
 
-    def to_dict(self) -> dict[str, float | None]:
-        """Plain dict for JSON: properties in SI, ``temperature`` in degC, ``pressure`` in Pa."""
+    def to_dict(self) -> dict[str, Any]:
+        """Plain dict for JSON: properties in SI, ``temperature`` in degC, ``pressure`` in Pa,
+        and ``estimated`` (property -> why) for the properties that are estimates."""
         return {
             "temperature": self.temperature - ZERO_CELSIUS,
             "pressure": self.pressure,
@@ -105,6 +118,7 @@ class FluidProperties:
             "surface_tension": self.surface_tension,
             "speed_of_sound": self.speed_of_sound,
             "vapour_pressure": self.vapour_pressure,
+            "estimated": dict(self.estimated),
         }
 
 
@@ -205,6 +219,9 @@ class Fluid(ABC):
     phase: str
     description: str
     references: tuple[str, ...]
+    #: Properties that are estimates rather than published models: property -> why. Every
+    #: output that shows such a property says so (fluid tables and JSON, scale effects).
+    estimated: dict[str, str] = {}  # noqa: RUF012 - read-only class default
 
     def __init__(self) -> None:
         self._bounds_cache: dict[float, _Bounds] = {}
@@ -293,6 +310,7 @@ class Fluid(ABC):
             surface_tension=None if math.isnan(sigma) else sigma,
             speed_of_sound=None if math.isnan(c) else c,
             vapour_pressure=self._vapour_pressure(t, p),
+            estimated=tuple(self.estimated.items()),
         )
 
     def table(self, pressure: float = ATMOSPHERE) -> FluidTable:
@@ -517,8 +535,9 @@ class GlycerolWater(Fluid):
     references = (
         "viscosity: Cheng (2008), Ind. Eng. Chem. Res. 47, 3285, eqs. 21-22",
         "density: Volk & Kähler (2018), Exp. Fluids 59, 75 (fitted 15-30 degC)",
-        "surface tension: linear in mass fraction between IAPWS R1-76(2014) water and glycerol "
-        "at 63.4 mN/m at 20 degC (an approximation, from memory)",
+        "surface tension: an estimate, linear in mass fraction between IAPWS R1-76(2014) water "
+        "and glycerol at 63.4 mN/m at 20 degC (CRC Handbook, from memory); no published "
+        "mixture data checked",
         "speed of sound, vapour pressure: no cited model, None",
         "range: 0-100 degC of Cheng (2008), capped at pure water's boiling point (conservative); "
         "mixtures freeze below 0 degC, and glycerol (melting at 18 degC) stays supercooled in "
@@ -528,6 +547,8 @@ class GlycerolWater(Fluid):
     def __init__(self, mass_fraction: float) -> None:
         super().__init__()
         self.mass_fraction = float(mass_fraction)
+        if self.mass_fraction > 0.0:
+            self.estimated = {"surface_tension": GLYCEROL_WATER_SIGMA_NOTE}
         self.name = f"glycerol-water {100.0 * self.mass_fraction:g}%"
         self.description = f"aqueous glycerol, {100.0 * self.mass_fraction:g} % glycerol by mass"
 

@@ -7,9 +7,13 @@ from __future__ import annotations
 
 import math
 
-#: Manning n of the smoothest model materials, glass and acrylic (perspex): normal values
-#: 0.009-0.010 (Chow, V. T. (1959). Open-Channel Hydraulics, Table 5-6, from memory: lucite
-#: 0.008/0.009/0.010, glass 0.009/0.010/0.013 as minimum/normal/maximum).
+#: Manning n [s/m^1/3] of the smoothest model materials: the NORMAL values of acrylic (Lucite,
+#: perspex) 0.009 and glass 0.010 in Chow, V. T. (1959), Open-Channel Hydraulics, Table 5-6
+#: (from memory; the table's minimum/normal/maximum are Lucite 0.008/0.009/0.010 and glass
+#: 0.009/0.010/0.013). The normal values are used, not the minima, because a built model has
+#: joints, sealant and fittings that a freshly finished test surface does not: a model needing
+#: less than 0.009 is reported as not buildable, although a flawless acrylic surface may reach
+#: 0.008.
 SMOOTH_MATERIALS_N: tuple[float, float] = (0.009, 0.010)
 
 LAMINAR_LIMIT = 2300.0  # [-] pipe Reynolds number below which f = 64/Re (from memory)
@@ -132,14 +136,26 @@ def ittc_1957(reynolds: float) -> float:
 
 
 def strickler_roughness(manning_n: float) -> float:
-    r"""Equivalent sand roughness [m] for a Manning n [s/m^1/3], by Strickler's law.
+    r"""Median grain size d50 [m] of a bed whose grain roughness gives a Manning n [s/m^1/3].
 
-    .. math:: n = \frac{k_s^{1/6}}{21.1} \quad\Rightarrow\quad k_s = (21.1\,n)^6
+    Strickler's law, with his constant 21.1 on the median grain size (SI units):
+
+    .. math:: n = \frac{d_{50}^{1/6}}{21.1} \quad\Rightarrow\quad d_{50} = (21.1\,n)^6
+
+    The result is a grain size, not Nikuradse's equivalent sand roughness ks: ks of a natural
+    bed is larger than d50 (often taken as 2 to 3 times d50 or d90, common practice). Valid for
+    plane beds of grains well below the flow depth.
 
     References
     ----------
     Strickler, A. (1923). Beitraege zur Frage der Geschwindigkeitsformel und der
-    Rauhigkeitszahlen fuer Stroeme, Kanaele und geschlossene Leitungen; the SI constant 21.1
-    for ks as in Henderson, F. M. (1966), Open Channel Flow, from memory.
+    Rauhigkeitszahlen fuer Stroeme, Kanaele und geschlossene Leitungen, Mitteilungen des
+    Eidgenoessischen Amtes fuer Wasserwirtschaft 16, Bern: the constant 21.1 with d50 in metres
+    (the series, number and constant from memory).
+
+    Examples
+    --------
+    >>> round(strickler_roughness(0.020) * 1000, 2)  # a Manning n of 0.020 is d50 = 5.7 mm
+    5.65
     """
     return (21.1 * manning_n) ** 6

@@ -258,7 +258,9 @@ BUILTIN_GROUPS: dict[str, GroupDefinition] = {
             "not fully rough when the prototype's are has too high a friction factor.",
             references=(
                 "Nikuradse, J. (1933). Stroemungsgesetze in rauhen Rohren. VDI-Forschungsheft "
-                "361 (from memory).",
+                "361 (from memory): the sand-grain data; the bands 5 and 70 are the textbook "
+                "values (Schlichting, H., Boundary-Layer Theory; White, F. M., Fluid Mechanics, "
+                "ch. 6; from memory).",
             ),
         ),
     )

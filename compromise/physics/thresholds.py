@@ -3,9 +3,11 @@
 A case names the phenomena it involves (``phenomena = ["open_channel", "surface_tension"]``);
 each phenomenon brings thresholds on model values. A threshold has a failing side, a passing
 value and, between them where the literature gives a range, a marginal band. Each row carries
-its source and how sure we are of it: ``found`` (read in the published text), ``from memory``
-(recalled, to be checked against the source), ``common practice`` (a rule of the trade with no
-single source) or ``physics`` (computed from a law).
+its source and how sure we are of it: ``found`` (the value is stated in the cited source, seen
+in its text or abstract), ``from memory`` (recalled, to be checked against the source before
+relying on it), ``common practice`` (a rule of the trade with no single source) or ``physics``
+(computed from a law). The source names the publication that states the number; a work that only
+lists it is named as such ("as listed in").
 
 Expressions use the safe expression language over conventional quantity names; a case maps its
 own names onto them (``[phenomena.hydraulic_jump] depth = "toe_depth"``).
@@ -74,14 +76,16 @@ THRESHOLDS: tuple[Threshold, ...] = (
     Threshold(
         "open_channel",
         "turbulent",
-        "turbulent open-channel flow, Re = V R / nu",
+        "turbulent open-channel flow, Re = V R / nu (R = depth: wide channel)",
         "velocity * depth / nu",
         "min",
         500.0,
         2000.0,
         "-",
-        "Chow, V. T. (1959). Open-Channel Hydraulics, sec. 1-4: laminar below about 500, "
-        "turbulent above about 2000 (hydraulic radius taken as the depth)",
+        "Chow, V. T. (1959). Open-Channel Hydraulics, ch. 1, state of flow (section not "
+        "checked): laminar below about 500, turbulent above about 2000, on the hydraulic radius "
+        "R. The check takes R as the depth, true of wide channels only; in a narrow channel map "
+        'the depth to the hydraulic radius ([phenomena.open_channel] depth = "hydraulic_radius")',
         "from memory",
     ),
     Threshold(
@@ -93,9 +97,11 @@ THRESHOLDS: tuple[Threshold, ...] = (
         5.0,
         70.0,
         "-",
-        "Nikuradse, J. (1933). Stroemungsgesetze in rauhen Rohren, VDI-Forschungsheft 361: "
-        "smooth below 5, transitional 5-70, fully rough above 70",
-        "found",
+        "smooth below 5, transitional 5-70, fully rough above 70: the textbook bands on the "
+        "equivalent sand roughness (Schlichting, H., Boundary-Layer Theory, ch. on rough pipes; "
+        "White, F. M., Fluid Mechanics, ch. 6), drawn from Nikuradse's sand-grain pipes "
+        "(Nikuradse, J. (1933), VDI-Forschungsheft 361), whose own smooth limit differs",
+        "from memory",
     ),
     Threshold(
         "surface_tension",
@@ -106,8 +112,11 @@ THRESHOLDS: tuple[Threshold, ...] = (
         0.015,
         0.03,
         "m",
-        "Novak, P. et al. (2010). Hydraulic Modelling - an Introduction, ch. 4; Chanson, H. "
-        "(1999), ch. 14: 1.5-3 cm",
+        "keep model depths above about 1.5-3 cm, where surface tension and a laminar film "
+        "begin to matter: a rule of the trade with no single source, recalled from the "
+        "discussions of minimum model size in Novak, P. et al. (2010), Hydraulic Modelling - "
+        "an Introduction, and Chanson, H. (1999), The Hydraulics of Open Channel Flow, ch. 14, "
+        "neither checked for these figures",
         "common practice",
     ),
     Threshold(
@@ -119,8 +128,9 @@ THRESHOLDS: tuple[Threshold, ...] = (
         1.0,
         1.0,
         "-",
-        "linear dispersion relation of capillary-gravity waves, c_min = (4 g sigma / rho)^1/4 "
-        "= 0.23 m/s at 17 mm wavelength (Lamb, H. (1932). Hydrodynamics, sec. 267)",
+        "minimum phase speed of the linear dispersion relation of capillary-gravity waves, "
+        "c_min = (4 g sigma / rho)^1/4, 0.23 m/s at 17 mm wavelength for water at 20 degC "
+        "(Lamb, H. (1932). Hydrodynamics, 6th ed., chapter on surface waves)",
         "physics",
     ),
     Threshold(
@@ -133,19 +143,22 @@ THRESHOLDS: tuple[Threshold, ...] = (
         0.35,
         "s",
         "Hughes, S. A. (1993). Physical Models and Laboratory Techniques in Coastal "
-        "Engineering, as listed in Heller, V. (2011), J. Hydraul. Res. 49(3), Table 2",
+        "Engineering, as listed in Heller, V. (2011), Scale effects in physical hydraulic "
+        "engineering models, J. Hydraul. Res. 49(3), 293-306, Table 2: wave period above "
+        "0.35 s and water depth above 2 cm",
         "from memory",
     ),
     Threshold(
         "waves",
-        "height",
-        "wave height",
-        "wave_height",
+        "depth",
+        "water depth in the wave basin",
+        "water_depth",
         "min",
         0.02,
         0.02,
         "m",
-        "Hughes (1993), as listed in Heller (2011), Table 2",
+        "Hughes (1993), as listed in Heller (2011), Table 2: water depth above 2 cm (a depth, "
+        "not a wave height)",
         "from memory",
     ),
     Threshold(
@@ -158,8 +171,9 @@ THRESHOLDS: tuple[Threshold, ...] = (
         1.0e5,
         "-",
         "Wang, H., Chanson, H. (2016), Environ. Fluid Mech.: aeration reproduced for a model "
-        "Reynolds number no less than 4e4-6e4; Chanson, H., Murzyn, F. (2008): viscous scale "
-        "effects observed up to 1e5",
+        "Reynolds number of at least 4e4-6e4; Chanson, H., Murzyn, F. (2008): some viscous "
+        "scale effects in facilities up to 1e5. Failing below the first, passing from the "
+        "second",
         "found",
     ),
     Threshold(
@@ -171,7 +185,9 @@ THRESHOLDS: tuple[Threshold, ...] = (
         140.0,
         140.0,
         "-",
-        "Pfister, M., Chanson, H. (2014), J. Hydrodynamics 26(2); Pfister & Hager (2010)",
+        "Pfister, M., Chanson, H. (2014), J. Hydrodynamics 26(2), whose abstract asks for "
+        "minimal Reynolds or Weber numbers; Pfister, M., Hager, W. H. (2010), J. Hydraul. Eng., "
+        "on chute aerators: We^0.5 at least 140 (the value recalled, not checked)",
         "from memory",
     ),
     Threshold(
@@ -183,7 +199,8 @@ THRESHOLDS: tuple[Threshold, ...] = (
         3.0e4,
         3.0e4,
         "-",
-        "Anwar, H. O., Weller, J. A., Amphlett, M. B. (1978), J. Hydraul. Res. 16(2)",
+        "Anwar, H. O., Weller, J. A., Amphlett, M. B. (1978), J. Hydraul. Res. 16(2): radial "
+        "Reynolds number above 3e4",
         "found",
     ),
     Threshold(
@@ -195,7 +212,7 @@ THRESHOLDS: tuple[Threshold, ...] = (
         1.0e4,
         1.0e4,
         "-",
-        "Anwar, Weller & Amphlett (1978)",
+        "Anwar, Weller & Amphlett (1978), J. Hydraul. Res. 16(2): Weber number above 1e4",
         "found",
     ),
     Threshold(
@@ -207,7 +224,8 @@ THRESHOLDS: tuple[Threshold, ...] = (
         3.0e4,
         3.0e4,
         "-",
-        "Dai, Y. B., Kamel, A. M. (1969), via Hughes (1993) and Heller (2011)",
+        "Dai, Y. B., Kamel, A. M. (1969), US Army Engineer Waterways Experiment Station, as "
+        "cited by Hughes (1993) and Heller (2011): above 3e4 (some authors 4e4)",
         "from memory",
     ),
     Threshold(
@@ -219,8 +237,8 @@ THRESHOLDS: tuple[Threshold, ...] = (
         2.0e6,
         5.0e6,
         "-",
-        "laminar flow a risk below about 2-3e6 even with turbulence stimulators; towing tanks "
-        "aim at 5e6 or more (ITTC practice)",
+        "towing-tank practice with no single source: laminar flow is a risk below about "
+        "2-3e6 even with turbulence stimulators, and tanks aim at 5e6 or more",
         "common practice",
     ),
     Threshold(
@@ -232,7 +250,8 @@ THRESHOLDS: tuple[Threshold, ...] = (
         0.3,
         0.3,
         "-",
-        "density change within 5 % below Mach 0.3 (isentropic flow: rho0/rho = 1.0455 at M = 0.3)",
+        "isentropic flow of a perfect gas with gamma = 1.4: rho0/rho = (1 + 0.2 M^2)^2.5 = "
+        "1.0456 at M = 0.3, a density change within 5 %",
         "physics",
     ),
     Threshold(
@@ -244,9 +263,11 @@ THRESHOLDS: tuple[Threshold, ...] = (
         10.0,
         5.0,
         "-",
-        "US Bureau of Reclamation, Physical modeling of rivers in the hydraulics laboratory "
-        "(research project 21200): distortion below 5 for quantitative data, up to 10 feasible; "
-        "valid only where vertical velocities and accelerations are small (Hughes 1993)",
+        "US Bureau of Reclamation research project 21200, Physical modeling of rivers in the "
+        "hydraulics laboratory (Shinebein, M., principal investigator), project summary seen: "
+        "Reclamation's distorted models stayed below 5, and up to 10 is judged feasible for "
+        "quantitative results. Distortion is valid only where vertical velocities and "
+        "accelerations are small (Hughes, S. A. (1993), as quoted in USACE report TR-03-6)",
         "found",
     ),
     Threshold(
@@ -258,8 +279,8 @@ THRESHOLDS: tuple[Threshold, ...] = (
         2300.0,
         4000.0,
         "-",
-        "laminar below about 2300, turbulent above about 4000 (Reynolds 1883; "
-        "White, F. M., Fluid Mechanics, ch. 6)",
+        "laminar below about 2300, turbulent above about 4000 (White, F. M., Fluid Mechanics, "
+        "ch. 6; the transition first observed by Reynolds, O. (1883), Phil. Trans. R. Soc. 174)",
         "from memory",
     ),
 )

@@ -11,10 +11,12 @@ from __future__ import annotations
 
 import csv
 import math
+import textwrap
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from compromise.presentation.tables import fmt, table
+from compromise.review.wording import CAUTION
 from compromise.units import format_ratio
 
 if TYPE_CHECKING:
@@ -26,7 +28,7 @@ if TYPE_CHECKING:
 def _save(figure: str, result: Any, stem: Path) -> list[Path]:
     from compromise.presentation import plots
 
-    return plots.save_figure(getattr(plots, figure)(result), stem)
+    return plots.save_figure(getattr(plots, figure)(result), stem, result.case)
 
 
 def _short(design: Any) -> str:
@@ -77,12 +79,20 @@ def write_front(front: Front, folder: str | Path) -> list[Path]:
     return [path, *_save("front_figure", front, stem)]
 
 
+def _shown(front: Front, values: Any) -> list[Any]:
+    """A point's axis values for the table: a dimensionless (mismatch) value below the noise
+    is 0."""
+    return [
+        _mismatch(float(v)) if a.unit == "-" else v for a, v in zip(front.axes, values, strict=True)
+    ]
+
+
 def format_front(front: Front, rows: int = 12) -> str:
     """A readable summary: every few points of the front, the knee and the solver's design."""
     out = [front.case.title, ""]
     names = " vs ".join(f"{a.label} [{a.unit}]" for a in front.axes)
     if not front.points:
-        return "\n".join([*out, f"Pareto front of {names}: no feasible design."])
+        return "\n".join([*out, f"Pareto front of {names}: no feasible design.", "", CAUTION])
     out.append(
         f"Pareto front of {names}: {len(front.points)} points (exact, epsilon-constraint;"
         f" {front.primary} minimised)."
@@ -114,7 +124,7 @@ def format_front(front: Front, rows: int = 12) -> str:
         body.append(
             [
                 str(i),
-                *pt.values,
+                *_shown(front, pt.values),
                 d.fluid,
                 f"{d.temperature - 273.15:.1f}",
                 format_ratio(d.horizontal_ratio),
@@ -128,7 +138,7 @@ def format_front(front: Front, rows: int = 12) -> str:
         body.append(
             [
                 "solver",
-                *front.chosen.values,
+                *_shown(front, front.chosen.values),
                 d.fluid,
                 f"{d.temperature - 273.15:.1f}",
                 format_ratio(d.horizontal_ratio),
@@ -140,6 +150,7 @@ def format_front(front: Front, rows: int = 12) -> str:
     out.append(table(head, body))
     if n == 1:
         out.append("\nThe front is a single point: one design is best on every axis.")
+    out += ["", CAUTION]
     return "\n".join(out)
 
 
@@ -186,21 +197,23 @@ def format_map(dmap: DesignMap) -> str:
     ]
     if dmap.optimum is not None:
         out.append(
-            f"Optimum: {_short(dmap.optimum)} (weighted mismatch {fmt(dmap.optimum_objective)})."
+            f"Optimum: {_short(dmap.optimum)} (weighted mismatch "
+            f"{fmt(_mismatch(dmap.optimum_objective))})."
         )
     out.append("")
     rows = [
-        [b.label, b.key, f"{100 * b.excluded:.1f} %", "yes" if b.binding else ""]
+        [b.label, b.key, f"{100 * b.excluded:.1f}", "yes" if b.binding else ""]
         for b in dmap.boundaries
     ]
-    out.append(table(["limit", "key", "excludes", "binds"], rows))
+    out.append(table(["limit", "key", "excludes [% of map]", "binds"], rows))
     if dmap.preferred:
         out.append("")
         rows = [
-            [r, _short(d) if d else "infeasible", o if math.isfinite(o) else None]
+            [r, _short(d) if d else "infeasible", _mismatch(o) if math.isfinite(o) else None]
             for r, d, o in dmap.preferred
         ]
-        out.append(table(["preferred ratio", "best design there", "mismatch"], rows))
+        out.append(table(["preferred ratio", "best design there", "mismatch [-]"], rows))
+    out += ["", CAUTION]
     return "\n".join(out)
 
 
@@ -212,7 +225,18 @@ def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
     path = stem.with_suffix(".csv")
     with path.open("w", newline="", encoding="utf-8") as fh:
         w = csv.writer(fh, lineterminator="\n")
-        w.writerow(["candidate", "fluid", "ratio", "wins", "share", "nominal_objective"])
+        w.writerow(
+            [
+                "candidate",
+                "fluid",
+                "ratio",
+                "wins",
+                "share",
+                "ties",
+                "tie_share",
+                "nominal_objective",
+            ]
+        )
         for c in sens.candidates:
             w.writerow(
                 [
@@ -221,7 +245,9 @@ def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
                     "" if c.ratio is None else repr(c.ratio),
                     c.wins,
                     repr(c.share),
-                    repr(c.nominal_objective),
+                    c.ties,
+                    repr(c.tie_share),
+                    repr(_mismatch(c.nominal_objective)),
                 ]
             )
     samples = folder / "sensitivity_samples.csv"
@@ -236,47 +262,85 @@ def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
             ]
         )
         for i in range(sens.samples):
-            win = sens.winners[i]
             w.writerow(
                 [
                     i,
                     *(repr(float(x)) for x in sens.factors[i]),
-                    sens.candidates[win].label if win >= 0 else "",
+                    _best_of(sens, i),
                     *(repr(float(x)) for x in sens.optima[i]),
                 ]
             )
     return [path, samples, *_save("sensitivity_figure", sens, stem)]
 
 
-def _mismatch(v: float) -> Any:
-    """A candidate's mismatch; below the sensitivity's tie tolerance it is shown as nil."""
-    from compromise.explore.sensitivity import TIE_ABS
+def _best_of(sens: Sensitivity, sample: int) -> str:
+    """The best candidate of a sample, or ``tied: a | b`` when several tie."""
+    if sens.best_sets is None:
+        win = sens.winners[sample]
+        return sens.candidates[win].label if win >= 0 else ""
+    labels = [c.label for c, b in zip(sens.candidates, sens.best_sets[sample], strict=True) if b]
+    return labels[0] if len(labels) == 1 else ("tied: " + " | ".join(labels) if labels else "")
 
-    if not math.isfinite(v):
-        return "infeasible"
-    return f"< {TIE_ABS:g}" if v < TIE_ABS else v
+
+def _mismatch(v: float) -> Any:
+    """A candidate's mismatch at the case's weights; numerical noise is shown as 0."""
+    from compromise.solving.result import denoise
+
+    return denoise(v) if math.isfinite(v) else "infeasible"
 
 
 def format_sensitivity(sens: Sensitivity) -> str:
     """The candidates' shares and the ranges of the optimum's decision variables."""
+    from compromise.explore.sensitivity import TIE_ABS
+
     out = [
         sens.case.title,
         "",
-        f"Weights of {', '.join(sens.groups)} each multiplied by a factor log-uniform in "
-        f"[1/{sens.spread:g}, {sens.spread:g}]; {sens.samples} samples, seed {sens.seed}.",
-        "",
+        f"Weights of {', '.join(sens.groups) or 'no group'} each multiplied by a factor "
+        f"log-uniform in [1/{sens.spread:g}, {sens.spread:g}]; {sens.samples} samples, "
+        f"seed {sens.seed}.",
     ]
+    out = out[:2] + textwrap.wrap(out[2], 100)
+    if sens.note:
+        out += textwrap.wrap(sens.note, 100)
+    out.append("")
+    tied_nominal = len(sens.nominal_tied) > 1
+
+    def remark(i: int) -> str:
+        if tied_nominal and i in sens.nominal_tied:
+            return "tied best at the case's weights"
+        return "best at the case's weights" if i == sens.nominal else ""
+
     rows = [
         [
             c.label,
             c.wins,
-            f"{100 * c.share:.1f} %",
+            f"{100 * c.share:.1f}",
+            c.ties,
+            f"{100 * c.tie_share:.1f}",
             _mismatch(c.nominal_objective),
-            "best at the case's weights" if i == sens.nominal else "",
+            remark(i),
         ]
         for i, c in enumerate(sens.candidates)
     ]
-    out.append(table(["candidate", "wins", "share", "mismatch at case weights", ""], rows))
+    head = [
+        "candidate",
+        "best alone",
+        "share [%]",
+        "tied best",
+        "tied [%]",
+        "mismatch at case weights [-]",
+        "",
+    ]
+    out.append(table(head, rows))
+    if sens.tied_samples:
+        out.append("")
+        out += textwrap.wrap(
+            f"In {sens.tied_samples} of {sens.samples} samples two or more candidates tie for "
+            f"the best (mismatches within {TIE_ABS:g}): the weights do not separate them, and "
+            "no candidate wins those samples.",
+            100,
+        )
     out.append("")
     out.append("The unconstrained optimum over the samples:")
 
@@ -298,5 +362,11 @@ def format_sensitivity(sens: Sensitivity) -> str:
     ]
     out.append(table(["variable", "case weights", "min", "5 %", "median", "95 %", "max"], rows))
     shares = ", ".join(f"{f} {100 * s:.1f} %" for f, s in sens.fluid_shares.items())
-    out.append(f"\nModel fluid of the optimum: {shares}.")
+    out.append("")
+    out += textwrap.wrap(
+        f"Model fluid of the optimum: {shares} (among tied fluids, the one the case lists "
+        "first, as in solve).",
+        100,
+    )
+    out += ["", CAUTION]
     return "\n".join(out)

@@ -1,20 +1,22 @@
-"""Figures, CSV files and text tables of the trade-off tools (presentation only).
+"""Figures of the trade-off tools: fronts, design-space maps, weight sensitivity.
 
 Matplotlib is imported inside the functions (Agg canvas, no pyplot state), so importing this
-module is cheap. Every figure function returns a :class:`matplotlib.figure.Figure`;
-:func:`save_figure` writes it as PNG and SVG. The SVG is byte-for-byte reproducible: a fixed
-hash salt for element ids, text kept as text (``svg.fonttype = 'none'``) and no date in the
-metadata.
+module is cheap. Every figure function returns a :class:`matplotlib.figure.Figure` whose footer
+carries the case's provenance and the caution; :func:`save_figure`
+(:mod:`compromise.presentation.figures`) writes it as PNG and SVG, byte-for-byte reproducible,
+with the same provenance in the files' metadata.
 """
 
 from __future__ import annotations
 
-import math
-from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from compromise.presentation.figures import add_footer, fluid_colours, new_figure, save_figure
+from compromise.presentation.sensitivity_plot import sensitivity_figure
+
+__all__ = ["front_figure", "map_figure", "save_figure", "sensitivity_figure", "short_label"]
 from compromise.presentation.tables import fmt
 from compromise.units import format_ratio
 
@@ -23,49 +25,10 @@ if TYPE_CHECKING:
     from matplotlib.figure import Figure
 
     from compromise.explore.designmap import DesignMap
-    from compromise.explore.sensitivity import Sensitivity
     from compromise.explore.tradeoffs import Front
     from compromise.solving.design import Design
 
-COLOURS = (
-    "#1f77b4",
-    "#d62728",
-    "#2ca02c",
-    "#9467bd",
-    "#ff7f0e",
-    "#8c564b",
-    "#e377c2",
-    "#17becf",
-    "#7f7f7f",
-    "#bcbd22",
-)  # matplotlib's tab10, reordered for contrast
 LINE_STYLES = ("-", "--", "-.", ":")
-
-
-def _figure(width: float, height: float) -> Figure:
-    from matplotlib.backends.backend_agg import FigureCanvasAgg
-    from matplotlib.figure import Figure
-
-    fig = Figure(figsize=(width, height), layout="constrained")
-    FigureCanvasAgg(fig)
-    return fig
-
-
-def save_figure(fig: Figure, stem: str | Path) -> list[Path]:
-    """Write ``stem.png`` (150 dpi) and ``stem.svg``; return the paths."""
-    import matplotlib
-
-    stem = Path(stem)
-    stem.parent.mkdir(parents=True, exist_ok=True)
-    out = [stem.with_suffix(".png"), stem.with_suffix(".svg")]
-    with matplotlib.rc_context({"svg.hashsalt": "compromise", "svg.fonttype": "none"}):
-        fig.savefig(out[0], dpi=150, metadata={"Software": None})
-        fig.savefig(out[1], metadata={"Date": None, "Creator": None})
-    return out
-
-
-def _fluid_colours(fluids: tuple[str, ...] | list[str]) -> dict[str, str]:
-    return {f: COLOURS[i % len(COLOURS)] for i, f in enumerate(fluids)}
 
 
 def short_label(design: Design) -> str:
@@ -85,9 +48,9 @@ def front_figure(front: Front) -> Figure:
     units on the axes; with three axes, the three pairwise projections."""
     k = len(front.axes)
     pairs = [(0, 1)] if k == 2 else [(0, 1), (0, 2), (1, 2)]
-    fig = _figure(7.5 if k == 2 else 15.0, 5.6 if k == 2 else 5.0)
+    fig = new_figure(7.5 if k == 2 else 15.0, 5.6 if k == 2 else 5.0)
     axs = fig.subplots(1, len(pairs), squeeze=False)[0]
-    colours = _fluid_colours(front.case.model.fluids)
+    colours = fluid_colours(front.case.model.fluids)
     v = front.values
     fluids = [pt.design.fluid for pt in front.points]
     for n, (i, j) in enumerate(pairs):
@@ -191,6 +154,7 @@ def front_figure(front: Front) -> Figure:
     fig.suptitle(
         f"{front.case.title}\nPareto front: {names} ({len(front.points)} points)", fontsize=11
     )
+    add_footer(fig, front.case)
     return fig
 
 
@@ -270,7 +234,7 @@ def map_figure(dmap: DesignMap) -> Figure:
     from matplotlib.path import Path as MPath
     from matplotlib.ticker import FuncFormatter
 
-    fig = _figure(9.4, 7.4)
+    fig = new_figure(9.4, 7.4)
     ax = fig.subplots()
     X, Y = dmap.grid(0), dmap.grid(1)
     gx, gy = np.meshgrid(X, Y)
@@ -478,12 +442,15 @@ def map_figure(dmap: DesignMap) -> Figure:
             label="outside the feasible window (ticks mark the infeasible side)",
         )
     )
-    fig.legend(handles=handles, loc="outside lower center", ncol=2, fontsize=8.3, frameon=False)
+    legend = fig.legend(
+        handles=handles, loc="outside lower center", ncol=2, fontsize=8.3, frameon=False
+    )
     fig.suptitle(
         f"{dmap.case.title}\ndesign-space map, model fluid {dmap.fluid} (the other "
         "choices at their optimum in each cell)",
         fontsize=11,
     )
+    add_footer(fig, dmap.case, legend)
     return fig
 
 
@@ -538,55 +505,6 @@ def _label_line(
         bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": colour, "alpha": 0.9},
     )
     return boxes[i]
-
-
-# --------------------------------------------------------------------------------------------
-# weight sensitivity
-
-
-def sensitivity_figure(sens: Sensitivity) -> Figure:
-    """Share of the samples in which each candidate design is the best, one bar each."""
-    n = len(sens.candidates)
-    fig = _figure(7.8, 1.6 + 0.42 * n)
-    ax = fig.subplots()
-    colours = _fluid_colours(sens.case.model.fluids)
-    ypos = np.arange(n)[::-1]
-    shares = [100 * c.share for c in sens.candidates]
-    bars = ax.barh(
-        ypos,
-        shares,
-        color=[colours[c.fluid] for c in sens.candidates],
-        edgecolor="black",
-        lw=0.6,
-        height=0.66,
-    )
-    if sens.nominal >= 0:
-        bars[sens.nominal].set_linewidth(2.2)
-        bars[sens.nominal].set_hatch("..")
-    for y, c, s in zip(ypos, sens.candidates, shares, strict=True):
-        note = "" if math.isfinite(c.nominal_objective) else "  (infeasible)"
-        tag = "  <- best at the case's weights" if c is sens.candidates[sens.nominal] else ""
-        ax.text(s + 1.0, y, f"{s:.1f} %{note}{tag}", va="center", fontsize=8.5)
-    ax.set_yticks(ypos, [c.label for c in sens.candidates])
-    ax.set_xlim(0, 130)
-    ax.set_xticks(range(0, 101, 20))
-    ax.set_xlabel("share of the samples in which it is the best design [%]")
-    ax.grid(True, axis="x", color="0.9", lw=0.6)
-    ax.set_axisbelow(True)
-    from matplotlib.patches import Patch
-
-    handles = [
-        Patch(facecolor=colours[f], edgecolor="black", label=f) for f in sens.case.model.fluids
-    ]
-    ax.legend(
-        handles=handles, loc="lower right", fontsize=8.5, title="model fluid", title_fontsize=8.5
-    )
-    fig.suptitle(
-        f"{sens.case.title}\nweights of {', '.join(sens.groups)} each x/÷ up to "
-        f"{sens.spread:g} (log-uniform), {sens.samples} samples, seed {sens.seed}",
-        fontsize=10.5,
-    )
-    return fig
 
 
 def _callout(ax: Any, text: str, xy: tuple[float, float], height: float, face: str) -> None:

@@ -12,6 +12,7 @@ from typing import Any
 
 from compromise.casefile.model import Case
 from compromise.review.effects import Effects, assess, with_thresholds
+from compromise.review.phenomena_hint import PhenomenaHint, phenomena_hint
 from compromise.review.wording import caution_line
 from compromise.solving.design import Design, Evaluation
 from compromise.solving.diagnose import Conflict
@@ -31,10 +32,14 @@ class Answer:
     effects : Effects or None
         Regimes, threshold checks and consequences of the design (None when infeasible or
         not assessed).
+    phenomena_hint : PhenomenaHint or None
+        The threshold checks the case does not ask for though its quantities and groups
+        suggest them (None: nothing to say).
     """
 
     solution: Solution
     effects: Effects | None = None
+    phenomena_hint: PhenomenaHint | None = None
 
     # the solution's fields, read through (an answer is a solution with more to say)
     @property
@@ -93,6 +98,8 @@ class Answer:
         out.update(body)
         if self.effects is not None:
             out["effects"] = self.effects.to_dict()
+        if self.phenomena_hint is not None:
+            out["phenomena_hint"] = self.phenomena_hint.to_dict()
         return out
 
     def to_frame(self) -> Any:
@@ -132,4 +139,4 @@ def solve(
         case = with_thresholds(case)
     sol = find_optimum(case, n_temperatures=n_temperatures, alternatives=alternatives)
     assessed = assess(case, sol.evaluation) if effects and sol.evaluation is not None else None
-    return Answer(sol, assessed)
+    return Answer(sol, assessed, phenomena_hint(case) if effects else None)

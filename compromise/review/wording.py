@@ -13,6 +13,18 @@ CAUTION = (
 )
 
 
+#: The source tags of thresholds, consequences and property notes, explained on one line. Every
+#: output that shows a tag prints this once (the ``effects`` JSON carries it as ``tag_legend``).
+TAG_LEGEND = (
+    "Tags: found = value stated in the cited source; from memory = recalled, check before "
+    "relying on it; common practice = a trade rule with no single source; physics = computed "
+    "from a law."
+)
+
+#: The tags a source may carry, in the order of :data:`TAG_LEGEND`.
+TAGS: tuple[str, ...] = ("found", "from memory", "common practice", "physics")
+
+
 def caution_line() -> str:
     """The caution on one line, as the JSON answers carry it."""
     return " ".join(CAUTION.split())

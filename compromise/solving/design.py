@@ -2,8 +2,8 @@
 
 :func:`evaluate_design` gives, per condition, the model value of every prototype quantity, every
 group's prototype and model values and mismatch, and every laboratory limit's margin.
-:func:`scale_table` builds a design from a length ratio and a velocity rule and adds the ratios of
-every derived kind of quantity (the classic table of scale ratios).
+:func:`compromise.solving.scales.scale_table` builds a design from a length ratio and a velocity
+rule and adds the ratios of every derived kind of quantity (the classic table of scale ratios).
 """
 
 from __future__ import annotations
@@ -16,8 +16,7 @@ import numpy as np
 
 from compromise import expressions as ex
 from compromise.casefile.model import Case
-from compromise.errors import CaseError
-from compromise.physics.scaling import DERIVED_KINDS, N_DECISION
+from compromise.physics.scaling import N_DECISION
 from compromise.solving.problem import PROPERTY_NAMES, property_environment
 from compromise.units import format_ratio, to_celsius
 
@@ -79,13 +78,20 @@ class Design:
 
 @dataclass(frozen=True)
 class GroupValue:
-    """A group's value in prototype and model for one condition."""
+    """A group's value in prototype and model for one condition.
+
+    ``by_construction`` marks a group whose model/prototype ratio is 1 for every design: the
+    scale laws of its quantities cancel (an Euler number whose pressure drop is itself scaled
+    as ``rho V^2``, a relative roughness whose two lengths share an axis). Its zero mismatch is
+    not a result of the design, and the weight on it does nothing.
+    """
 
     prototype: float
     model: float
     mismatch: float  # ln(model / prototype)
     weight: float
     exact: bool = False
+    by_construction: bool = False
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data, with the mismatch also as a factor."""
@@ -95,6 +101,7 @@ class GroupValue:
             "mismatch": self.mismatch,
             "factor": math.exp(self.mismatch),
             "weight": self.weight,
+            "by_construction": self.by_construction,
         }
 
 
@@ -252,12 +259,13 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
         case, design.fluid, design.temperature, design.pressure
     )
     p = _log_ratios(model_props, proto_props)
+    constructed = matched_by_construction(case)
     results = []
     for i, cond in enumerate(case.conditions):
         vals = case.values(i)
         quantities: dict[str, QuantityValue] = {}
         for name, q in case.quantities.items():
-            lr = _log_ratio(q.scaling, y, p)
+            lr = scaled_log_ratio(q.scaling, y, p)
             quantities[name] = QuantityValue(
                 vals[name], vals[name] * math.exp(lr), math.exp(lr), q.unit
             )
@@ -273,7 +281,9 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
             if g.threshold:
                 continue
             mm = math.log(mv / pv) if pv > 0 and mv > 0 else float("nan")
-            groups[name] = GroupValue(pv, mv, mm, g.weight, g.exact)
+            if name in constructed:
+                mm = 0.0  # exactly: the laws cancel; rounding of the model values is not a result
+            groups[name] = GroupValue(pv, mv, mm, g.weight, g.exact, name in constructed)
         limits: dict[str, LimitValue] = {}
         for lim in case.limits:
             mv = quantities[lim.quantity].model
@@ -294,113 +304,39 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
     return Evaluation(design, tuple(results), ratios)
 
 
-def _log_ratio(scaling: np.ndarray, y: np.ndarray, p: np.ndarray) -> float:
-    b = scaling[N_DECISION:]
-    used = b != 0
-    return float(scaling[:N_DECISION] @ y + (b[used] @ p[used] if used.any() else 0.0))
+def matched_by_construction(case: Case) -> frozenset[str]:
+    """Names of the power-product groups whose model/prototype ratio is 1 for every design.
 
-
-@dataclass(frozen=True)
-class ScaleTable:
-    """Scale ratios of a design, with the case's quantities and groups."""
-
-    design: Design
-    ratios: dict[str, float]
-    evaluation: Evaluation
-
-    def to_dict(self) -> dict[str, Any]:
-        """Plain data: ``ratios``, ``design``, ``quantities`` and ``groups`` (first condition),
-        and ``conditions`` when the case has several."""
-        first = self.evaluation.conditions[0]
-        out: dict[str, Any] = {
-            "design": self.design.to_dict(),
-            "ratios": dict(self.ratios),
-            "quantities": {k: v.to_dict() for k, v in first.quantities.items()},
-            "groups": {k: v.to_dict() for k, v in first.groups.items()},
-        }
-        if len(self.evaluation.conditions) > 1:
-            out["conditions"] = {c.name: c.to_dict() for c in self.evaluation.conditions}
-        return out
-
-
-def scale_table(
-    case: Case,
-    ratio: float,
-    *,
-    vertical: float | None = None,
-    velocity: str | float = "froude",
-    fluid: str | None = None,
-    temperature: float | None = None,
-    pressure: float | None = None,
-) -> ScaleTable:
-    """Scale ratios of every kind of quantity for a given length ratio and velocity rule.
-
-    Parameters
-    ----------
-    case : Case
-    ratio : float
-        Horizontal length ratio, model/prototype [-].
-    vertical : float, optional
-        Vertical length ratio [-]; defaults to ``ratio`` (undistorted).
-    velocity : str or float
-        ``"froude"``, ``"reynolds"`` or the name of any power-product group of the case (the
-        velocity ratio is chosen so that this group is kept exactly), or the velocity ratio.
-    fluid, temperature, pressure : optional
-        Model fluid and its state [K, Pa]; default the prototype's.
+    The group's exponent vector over the base ratios vanishes: the scale laws of its
+    quantities and properties cancel, so no length ratio, velocity ratio or fluid can change
+    it (for example ``pressure_drop / (rho velocity^2)`` with the pressure drop scaled as
+    ``rho V^2``).
 
     Examples
     --------
-    The Froude ratios at 1:25 (Chanson 1999, ch. 14; Hughes 1993, ch. 2):
-
     >>> from compromise.casefile.load import case_from_dict
     >>> c = case_from_dict({"prototype": {"fluid": "water", "temperature": "20 degC",
-    ...     "quantities": {"depth": "2 m", "velocity": "1 m/s"}},
-    ...     "groups": {"froude": {}}, "model": {"horizontal_ratio": "1:25"}})
-    >>> t = scale_table(c, 1 / 25)
-    >>> round(1 / t.ratios["discharge"])
-    3125
+    ...     "quantities": {"diameter": "0.1 m", "velocity": "1 m/s", "pressure_drop": "1 kPa"}},
+    ...     "groups": {"reynolds": {"length": "diameter"}, "euler": {}},
+    ...     "model": {"horizontal_ratio": "1:2"}})
+    >>> sorted(matched_by_construction(c))
+    ['euler']
     """
     from compromise.solving.problem import group_exponents
 
-    fluid = fluid or case.fluid
-    temperature = case.temperature if temperature is None else temperature
-    pressure = case.pressure if pressure is None else pressure
-    vertical = ratio if vertical is None else vertical
-    p = property_log_ratios(case, fluid, temperature, pressure)
-    x, z = math.log(ratio), math.log(vertical)
-    if isinstance(velocity, str):
-        key = velocity.lower()
-        if key not in case.groups:
-            from compromise.physics.groups import BUILTIN_GROUPS
+    out = set()
+    for name, g in case.groups.items():
+        if g.power is None or g.threshold:
+            continue
+        if np.all(np.abs(group_exponents(case, g)) < 1e-12):
+            out.add(name)
+    return frozenset(out)
 
-            if key not in BUILTIN_GROUPS:
-                raise CaseError(
-                    f"expected 'froude', 'reynolds', a group of the case or a ratio, "
-                    f"got {velocity!r}",
-                    key="--velocity",
-                )
-            raise CaseError(
-                f"the case has no group '{key}'; add it under [groups] to scale velocity by it",
-                file=case.path,
-                key="groups",
-            )
-        g = case.groups[key]
-        if g.power is None:
-            raise CaseError(
-                f"group '{key}' is not a power product; give a velocity ratio", key="--velocity"
-            )
-        s = group_exponents(case, g)
-        if abs(s[2]) < 1e-12:
-            raise CaseError(f"group '{key}' does not involve velocity", key="--velocity")
-        b = s[N_DECISION:]
-        used = b != 0
-        rest = s[0] * x + s[1] * z + (b[used] @ p[used] if used.any() else 0.0)
-        v = -rest / s[2]
-    else:
-        v = math.log(float(velocity))
-    design = Design(fluid, temperature, pressure, ratio, vertical, math.exp(v))
-    y = np.array([x, z, v])
-    ratios = {name: math.exp(_log_ratio(s, y, p)) for name, (s, _) in DERIVED_KINDS.items()}
-    ratios["density"] = math.exp(p[0])
-    ratios["kinematic_viscosity"] = math.exp(p[2])
-    return ScaleTable(design, ratios, evaluate_design(case, design))
+
+def scaled_log_ratio(scaling: np.ndarray, y: np.ndarray, p: np.ndarray) -> float:
+    """ln(ratio) of a quantity's exponent vector for decision log-ratios ``y`` and property
+    log-ratios ``p``; properties the law does not use are skipped (they may be NaN, as the
+    surface tension of a gas)."""
+    b = scaling[N_DECISION:]
+    used = b != 0
+    return float(scaling[:N_DECISION] @ y + (b[used] @ p[used] if used.any() else 0.0))

@@ -104,8 +104,19 @@ def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = 
     # deletion filter over inequality rows then equality rows
     keep_i = list(range(m))
     keep_e = list(range(q))
+    # rows sharing a normal act only through the tightest kept one: dropping a row that is not
+    # the tightest of its kind (or ties with another kept row) leaves the system, and so its
+    # infeasibility, unchanged, and needs no test
+    if m:
+        _, kind = np.unique(G, axis=0, return_inverse=True)
+        kind = np.asarray(kind).reshape(-1)
     for i in range(m):
         trial = [j for j in keep_i if j != i]
+        if i in keep_i:
+            same = [j for j in trial if kind[j] == kind[i]]
+            if same and min(h[j] for j in same) <= h[i]:
+                keep_i = trial
+                continue
         if not feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
             keep_i = trial
     for i in range(q):

@@ -91,11 +91,7 @@ def find_optimum(
     best = pick_state(feasible, case)
     design = design_of(best)
     evaluation = evaluate_design(case, design)
-    binding = (
-        _binding_costs(problem, engine, states, best, n_temperatures)
-        if alternatives
-        else {}
-    )
+    binding = _binding_costs(problem, engine, states, best, n_temperatures) if alternatives else {}
     alts = (
         _alternatives(case, problem, states, per_fluid, best, n_temperatures)
         if alternatives

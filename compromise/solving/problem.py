@@ -107,6 +107,12 @@ def group_exponents(case: Case, group: Group) -> np.ndarray:
     return out
 
 
+def bound_key(group: Group, side: str) -> str:
+    """The key a user knows a group's floor or ceiling by: ``groups.<name>.min``, or for a
+    scale-effect threshold enforced as a bound, ``phenomena.<phenomenon>.<threshold>``."""
+    return f"phenomena.{group.name}" if group.threshold else f"groups.{group.name}.{side}"
+
+
 def prototype_environment(case: Case, condition: int = 0) -> dict[str, float]:
     """Prototype quantities and fluid properties, for evaluating group expressions [SI]."""
     from compromise.physics.fluids import get_fluid
@@ -230,7 +236,7 @@ def build_problem(case: Case) -> Problem:
                     "min",
                     g.min,
                     which(proto, i),
-                    f"groups.{name}.min",
+                    bound_key(g, "min"),
                     looser(proto, i, "min"),
                 ),
             )
@@ -246,7 +252,7 @@ def build_problem(case: Case) -> Problem:
                     "max",
                     g.max,
                     which(proto, i),
-                    f"groups.{name}.max",
+                    bound_key(g, "max"),
                     looser(proto, i, "max"),
                 ),
             )

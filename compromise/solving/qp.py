@@ -17,6 +17,9 @@ References
 ----------
 Nocedal, J., Wright, S. J. (2006). *Numerical Optimization*, 2nd ed., ch. 16 (KKT conditions of
 quadratic programs, active sets), from memory.
+Goldfarb, D., Idnani, A. (1983). A numerically stable dual method for solving strictly convex
+quadratic programs. *Mathematical Programming* 27, 1-33 (the method of the ``quadprog``
+package, used past :data:`MAX_ENUMERATED_ROWS` distinct rows), from memory.
 """
 
 from __future__ import annotations
@@ -28,6 +31,7 @@ import numpy as np
 
 FEASIBILITY_TOL = 1e-9  # [-] on log-ratios
 CHUNK = 20000  # subproblems per batch (bounds the memory of the enumeration)
+MAX_ENUMERATED_ROWS = 40  # distinct inequality normals up to which active sets are enumerated
 
 
 @dataclass(frozen=True)
@@ -90,6 +94,12 @@ class SmallQP:
             if np.linalg.matrix_rank(trial, tol=1e-10) == len(eq_keep) + 1:
                 eq_keep.append(j)
         self.eq_keep = eq_keep
+        self._check_eq = len(eq_keep) < q
+        # past MAX_ENUMERATED_ROWS distinct normals the candidate active sets grow as m^3 (200
+        # rows: 1.3 million KKT systems): each subproblem then goes to a dual active-set solver
+        self.enumerated = m <= MAX_ENUMERATED_ROWS
+        if not self.enumerated:
+            return
         free = n - len(eq_keep)
         r = n + q + m  # full right-hand side: [-f, e, h]
         ne = len(eq_keep)
@@ -136,7 +146,6 @@ class SmallQP:
         self._mults = np.concatenate(mults, axis=0)
         # row values G y and E y as maps of the right-hand side too: feasibility costs one
         # matrix product per batch
-        self._check_eq = len(eq_keep) < q
         self._GY = (self.G @ allmaps).reshape(-1, r) if m else np.zeros((0, r))
         self._EY = (self.E @ allmaps).reshape(-1, r) if self._check_eq else np.zeros((0, r))
 
@@ -158,9 +167,10 @@ class SmallQP:
         )
         y, obj = np.empty((N, self.n)), np.empty(N)
         active = np.empty(N, dtype=int)
+        solve = self._solve if self.enumerated else self._solve_active_set
         for a in range(0, N, CHUNK):
             b = min(N, a + CHUNK)
-            y[a:b], obj[a:b], active[a:b] = self._solve(f[a:b], h[a:b], e[a:b])
+            y[a:b], obj[a:b], active[a:b] = solve(f[a:b], h[a:b], e[a:b])
         feasible = np.isfinite(obj)
         return QPBatch(y=y, objective=obj, active=active, feasible=feasible)
 
@@ -169,6 +179,34 @@ class SmallQP:
         if not self._collapsed:
             return h
         return np.minimum.reduceat(h[:, self._order], self._starts, axis=1)
+
+    def _solve_active_set(
+        self, f: np.ndarray, h: np.ndarray, e: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """One subproblem at a time with the Goldfarb-Idnani dual active-set method (quadprog).
+
+        The same feasibility test as the enumeration is applied to its answer, so both modes
+        report a subproblem infeasible alike. ``active`` is 0 for a solved subproblem.
+        """
+        import quadprog
+
+        N, n = f.shape[0], self.n
+        keep = self.eq_keep
+        C = np.vstack([self.E[keep], -self.G]).T  # quadprog: C' y >= b, equalities first
+        y = np.full((N, n), np.nan)
+        val = np.full(N, np.inf)
+        for i in range(N):
+            b = np.concatenate([e[i, keep], -h[i]])
+            try:
+                yi = quadprog.solve_qp(self.H, -f[i], C, b, len(keep))[0]
+            except ValueError:  # "constraints are inconsistent, no solution"
+                continue
+            ok = np.all(self.G @ yi <= h[i] + FEASIBILITY_TOL * (1.0 + np.abs(h[i])))
+            if self._check_eq:
+                ok &= np.all(np.abs(self.E @ yi - e[i]) <= FEASIBILITY_TOL * (1.0 + np.abs(e[i])))
+            if ok:
+                y[i], val[i] = yi, 0.5 * yi @ self.H @ yi + f[i] @ yi
+        return y, val, np.where(np.isfinite(val), 0, -1)
 
     def _solve(
         self, f: np.ndarray, h: np.ndarray, e: np.ndarray
@@ -199,8 +237,11 @@ class SmallQP:
         """Multipliers (rows,) of the inequality rows for one solved subproblem (zero if inactive).
 
         A multiplier is the rate at which the optimal value falls as that row's right-hand side
-        is raised. Of rows sharing a normal, the tightest carries the multiplier.
+        is raised. Of rows sharing a normal, the tightest carries the multiplier. Only for an
+        enumerating solver (``enumerated``).
         """
+        if not self.enumerated:
+            raise ValueError("multipliers need the enumerated active sets")
         h = np.asarray(h, float).reshape(-1)
         hu = self._tightest(h[None])[0]
         rhs = np.concatenate([-np.asarray(f, float), np.asarray(e, float), hu])

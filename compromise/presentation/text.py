@@ -1,0 +1,146 @@
+"""The plain-text building blocks of every table: numbers, aligned tables, and the tables of
+groups, quantities and limits that several answers share (presentation only).
+
+Every header carries its unit in brackets (``[-]`` dimensionless, ``[%]`` a percentage); where
+the rows of one table have different units, the table has a unit column.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+from typing import Any
+
+from compromise.units import format_ratio
+
+
+def fmt(value: Any, digits: int = 4) -> str:
+    """A number in a short, stable form (``-`` for None)."""
+    if value is None:
+        return "-"
+    if isinstance(value, bool):
+        return "yes" if value else "no"
+    if isinstance(value, str):
+        return value
+    v = float(value)
+    if math.isnan(v):
+        return "nan"
+    if math.isinf(v):
+        return "inf" if v > 0 else "-inf"
+    if v == 0:
+        return "0"
+    a = abs(v)
+    if 1e-3 <= a < 1e5:
+        return f"{v:.{digits}g}"
+    return f"{v:.{digits - 1}e}"
+
+
+def table(headers: Sequence[str], rows: Sequence[Sequence[Any]]) -> str:
+    """A plain text table with left-aligned first column and right-aligned numbers."""
+    cells = [[fmt(c) for c in r] for r in rows]
+    widths = [len(h) for h in headers]
+    for r in cells:
+        for i, c in enumerate(r):
+            widths[i] = max(widths[i], len(c))
+    lines = [
+        "  ".join(
+            h.ljust(w) if i == 0 else h.rjust(w)
+            for i, (h, w) in enumerate(zip(headers, widths, strict=True))
+        )
+    ]
+    lines.append("  ".join("-" * w for w in widths))
+    for r in cells:
+        lines.append(
+            "  ".join(
+                c.ljust(w) if i == 0 else c.rjust(w)
+                for i, (c, w) in enumerate(zip(r, widths, strict=True))
+            )
+        )
+    return "\n".join(lines)
+
+
+def _pct(mismatch: float) -> str:
+    if mismatch is None or not math.isfinite(mismatch):
+        return "-"
+    return _margin(math.exp(mismatch) - 1)
+
+
+def design_lines(d: dict[str, Any]) -> list[str]:
+    """The design as a few labelled lines."""
+    lines = [
+        f"  model fluid        {d['fluid']} at {d['temperature']:.1f} degC"
+        + (f", {fmt(d['pressure'])} Pa" if abs(d["pressure"] - 101325.0) > 1 else ""),
+        f"  horizontal ratio   {format_ratio(d['horizontal_ratio'])}",
+        f"  vertical ratio     {format_ratio(d['vertical_ratio'])}",
+        f"  distortion         {fmt(d['distortion'])}",
+        f"  velocity ratio     {format_ratio(d['velocity_ratio'])}  ({fmt(d['velocity_ratio'])})",
+    ]
+    return lines
+
+
+def groups_table(groups: dict[str, Any]) -> str:
+    """Groups: prototype, model, factor, mismatch in %, weight."""
+    rows = [
+        [
+            n,
+            g["prototype"],
+            g["model"],
+            g["factor"],
+            "by construction" if g.get("by_construction") else _pct(g["mismatch"]),
+            g["weight"],
+        ]
+        for n, g in groups.items()
+    ]
+    text = table(
+        ["group", "prototype [-]", "model [-]", "factor [-]", "mismatch [%]", "weight [-]"], rows
+    )
+    built = [n for n, g in groups.items() if g.get("by_construction")]
+    if built:
+        text += (
+            f"\n  matched by construction: {', '.join(built)} (the scale laws of the "
+            "quantities cancel: no design can change the ratio, and a weight on it does nothing)"
+        )
+    return text
+
+
+def quantities_table(quantities: dict[str, Any]) -> str:
+    """Quantities: prototype, model, ratio, unit."""
+    rows = [
+        [n, q["prototype"], q["model"], format_ratio(q["ratio"]), q["unit"]]
+        for n, q in quantities.items()
+    ]
+    return table(["quantity", "prototype", "model", "ratio [-]", "unit [SI]"], rows)
+
+
+def _margin(margin: float) -> str:
+    """A fractional margin in %, without a negative zero for a binding limit."""
+    pct = margin * 100
+    return f"{0.0 if abs(pct) < 0.05 else pct:+.1f} %"
+
+
+def limits_table(limits: dict[str, Any], quantities: dict[str, Any] | None = None) -> str:
+    """Limits: kind, bound, model, unit, margin, binding, condition.
+
+    A limit's unit is its quantity's (from ``quantities``); a group's floor or ceiling, and an
+    enforced threshold, are dimensionless (``-``) unless the limit carries its own ``unit``.
+    """
+    quantities = quantities or {}
+    rows = []
+    for n, lim in limits.items():
+        name = n.rsplit(".", 1)[0]
+        unit = lim.get("unit") or quantities.get(name, {}).get("unit", "-")
+        rows.append(
+            [
+                n,
+                lim["kind"],
+                lim["bound"],
+                lim["model"],
+                unit,
+                _margin(lim["margin"]),
+                "BINDS" if lim["binding"] else ("VIOLATED" if lim["margin"] < 0 else ""),
+                lim.get("condition", ""),
+            ]
+        )
+    return table(
+        ["limit", "kind", "bound", "model", "unit [SI]", "margin [%]", "", "condition"], rows
+    )

@@ -26,6 +26,7 @@ from compromise.casefile.checks import (
 )
 from compromise.casefile.model import (
     ATMOSPHERE,
+    DISPLAY_UNITS,
     LIMIT_KEYS,
     PROTOTYPE_KEYS,
     TOP_KEYS,
@@ -110,6 +111,10 @@ def case_from_dict(
     if not isinstance(description, str):
         L.error("description", f"expected a string, got {show(description)}")
         description = ""
+    display_units = data.get("display_units", "si")
+    if display_units not in DISPLAY_UNITS:
+        L.error("display_units", f"expected 'si' or 'us', got {show(display_units)}")
+        display_units = "si"
 
     # prototype ---------------------------------------------------------------------------
     proto = L.table(data.get("prototype", None), "prototype") if "prototype" in data else {}
@@ -267,4 +272,5 @@ def case_from_dict(
         model=model,
         limits=tuple(limits),
         source_sha256=source_sha256 or canonical_sha256(data),
+        display_units=display_units,
     )

@@ -30,7 +30,9 @@ TOP_KEYS = (
     "limits",
     "conditions",
     "phenomena",
+    "display_units",
 )
+DISPLAY_UNITS = ("si", "us")
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
 QUANTITY_KEYS = ("value", "axis", "scales_as", "description")
 GROUP_KEYS = ("weight", "exact", "min", "max", "expr", "length", "description")
@@ -160,6 +162,8 @@ class Case:
     #: canonical JSON (:func:`compromise.casefile.load.canonical_sha256`). Outputs and figures
     #: carry it so a result can be traced to the exact file it came from.
     source_sha256: str = ""
+    #: how human-facing output shows dimensional values: "si" or "us" (US customary)
+    display_units: str = "si"
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""

@@ -134,6 +134,10 @@ def binding_lines(binding: dict[str, Any], units: dict[str, str]) -> list[str]:
 def alternatives_lines(alternatives: list[dict[str, Any]], chosen: str | None) -> list[str]:
     """The best design per fluid and per preferred ratio; ties with the chosen design said."""
     out = ["Alternatives (best design per fluid and per preferred ratio):"]
+    t_unit = next(
+        (a["design"].get("temperature_unit", "degC") for a in alternatives if a["design"]),
+        "degC",
+    )
     rows = []
     for a in alternatives:
         d = a["design"]
@@ -155,7 +159,10 @@ def alternatives_lines(alternatives: list[dict[str, Any]], chosen: str | None) -
             ]
         )
     out.append(
-        table(["by", "choice", "fluid", "T [degC]", "X / Y", "mismatch [-]", "separated by"], rows)
+        table(
+            ["by", "choice", "fluid", f"T [{t_unit}]", "X / Y", "mismatch [-]", "separated by"],
+            rows,
+        )
     )
     if sum(bool(a.get("tied")) for a in alternatives) > 1:
         out.append(
@@ -192,15 +199,27 @@ def format_solution(sol: dict[str, Any]) -> str:
             ]
     else:
         out += ["", "Groups:", groups_table(sol["groups"])]
-    out += ["", "Limits (worst condition):", limits_table(sol["limits"], sol.get("quantities"))]
+    out += [
+        "",
+        "Limits (worst condition):",
+        limits_table(sol["limits"], sol.get("quantities"), sol.get("unit_system", "si")),
+    ]
     if sol.get("binding"):
         units = _bound_units(sol)
         out += ["", *binding_lines(sol["binding"], units)]
     if conds:
         for name, c in conds.items():
-            out += ["", f"Quantities in condition '{name}':", quantities_table(c["quantities"])]
+            out += [
+                "",
+                f"Quantities in condition '{name}':",
+                quantities_table(c["quantities"], sol.get("unit_system", "si")),
+            ]
     else:
-        out += ["", "Quantities:", quantities_table(sol["quantities"])]
+        out += [
+            "",
+            "Quantities:",
+            quantities_table(sol["quantities"], sol.get("unit_system", "si")),
+        ]
     if sol.get("effects"):
         out += ["", *effects_lines(sol["effects"])]
     if sol.get("phenomena_hint"):
@@ -445,24 +464,38 @@ def format_fluids(data: dict[str, Any], temperature: float) -> str:
     return out
 
 
+def _limit_unit(key: str, sol: dict[str, Any]) -> str:
+    """A limit's unit: its quantity's, or ``-`` for a group's floor or ceiling."""
+    return sol.get("quantities", {}).get(key.rsplit(".", 1)[0], {}).get("unit", "-")
+
+
 def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
     """Write the tables of a solution (``to_dict()`` form) as CSV files into ``folder``.
 
     Files: ``design.csv``, ``groups.csv``, ``limits.csv``, ``quantities.csv``,
-    ``alternatives.csv`` (and ``conflict.csv`` when infeasible). Each file is written to a
-    temporary name first and then renamed, so an interrupted run leaves no half-written file.
+    ``alternatives.csv`` (and ``conflict.csv`` when infeasible). Values are in the units of
+    ``sol`` (SI as computed, or as :func:`compromise.presentation.display.to_display` made
+    them); the ``unit`` columns and the design's headers say which. Each file goes through
+    :mod:`compromise.outfiles` (temporary name, then rename).
     """
     import csv
     import io
-    import os
     from pathlib import Path
 
-    folder = Path(folder)
-    folder.mkdir(parents=True, exist_ok=True)
+    from compromise.outfiles import check_output_folder, write_text
+
+    folder = check_output_folder(Path(folder), key="--csv")
     tables: dict[str, tuple[list[str], list[list[Any]]]] = {}
     if sol["status"] == "optimal":
-        d = sol["design"]
-        tables["design"] = (list(d), [list(d.values())])
+        d = {k: v for k, v in sol["design"].items() if not k.endswith(("_unit", "_si"))}
+        units = {
+            "temperature": sol["design"].get("temperature_unit", "degC"),
+            "pressure": sol["design"].get("pressure_unit", "Pa"),
+        }
+        tables["design"] = (
+            [f"{k} [{units[k]}]" if k in units else k for k in d],
+            [list(d.values())],
+        )
         conds = sol.get("conditions") or {
             "design": {"groups": sol["groups"], "quantities": sol["quantities"]}
         }
@@ -485,11 +518,12 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
                 lim["margin"],
                 lim["binding"],
                 lim.get("condition"),
+                lim.get("unit") or _limit_unit(n, sol),
             ]
             for n, lim in sol["limits"].items()
         ]
         tables["limits"] = (
-            ["limit", "kind", "bound", "model", "margin", "binding", "condition"],
+            ["limit", "kind", "bound", "model", "margin", "binding", "condition", "unit"],
             rows,
         )
         rows = []
@@ -548,9 +582,7 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
         for r in rows:
             w.writerow(["" if v is None else (repr(v) if isinstance(v, float) else v) for v in r])
         target = folder / f"{name}.csv"
-        tmp = folder / f".{name}.csv.tmp"
-        tmp.write_text(buf.getvalue(), encoding="utf-8")
-        os.replace(tmp, target)
+        write_text(target, buf.getvalue())
         written.append(str(target))
     return written
 

@@ -68,8 +68,13 @@ def _pct(mismatch: float) -> str:
 def design_lines(d: dict[str, Any]) -> list[str]:
     """The design as a few labelled lines."""
     lines = [
-        f"  model fluid        {d['fluid']} at {d['temperature']:.1f} degC"
-        + (f", {fmt(d['pressure'])} Pa" if abs(d["pressure"] - 101325.0) > 1 else ""),
+        f"  model fluid        {d['fluid']} at {d['temperature']:.1f} "
+        f"{d.get('temperature_unit', 'degC')}"
+        + (
+            f", {fmt(d['pressure'])} {d.get('pressure_unit', 'Pa')}"
+            if abs(d.get("pressure_si", d["pressure"]) - 101325.0) > 1
+            else ""
+        ),
         f"  horizontal ratio   {format_ratio(d['horizontal_ratio'])}",
         f"  vertical ratio     {format_ratio(d['vertical_ratio'])}",
         f"  distortion         {fmt(d['distortion'])}",
@@ -103,13 +108,18 @@ def groups_table(groups: dict[str, Any]) -> str:
     return text
 
 
-def quantities_table(quantities: dict[str, Any]) -> str:
-    """Quantities: prototype, model, ratio, unit."""
+def quantities_table(quantities: dict[str, Any], system: str = "si") -> str:
+    """Quantities: prototype, model, ratio, unit (``system``: the units the values are in)."""
     rows = [
         [n, q["prototype"], q["model"], format_ratio(q["ratio"]), q["unit"]]
         for n, q in quantities.items()
     ]
-    return table(["quantity", "prototype", "model", "ratio [-]", "unit [SI]"], rows)
+    return table(["quantity", "prototype", "model", "ratio [-]", unit_header(system)], rows)
+
+
+def unit_header(system: str) -> str:
+    """The header of a unit column: ``unit [SI]`` or ``unit [US]``."""
+    return f"unit [{system.upper()}]"
 
 
 def _margin(margin: float) -> str:
@@ -118,7 +128,9 @@ def _margin(margin: float) -> str:
     return f"{0.0 if abs(pct) < 0.05 else pct:+.1f} %"
 
 
-def limits_table(limits: dict[str, Any], quantities: dict[str, Any] | None = None) -> str:
+def limits_table(
+    limits: dict[str, Any], quantities: dict[str, Any] | None = None, system: str = "si"
+) -> str:
     """Limits: kind, bound, model, unit, margin, binding, condition.
 
     A limit's unit is its quantity's (from ``quantities``); a group's floor or ceiling, and an
@@ -142,5 +154,6 @@ def limits_table(limits: dict[str, Any], quantities: dict[str, Any] | None = Non
             ]
         )
     return table(
-        ["limit", "kind", "bound", "model", "unit [SI]", "margin [%]", "", "condition"], rows
+        ["limit", "kind", "bound", "model", unit_header(system), "margin [%]", "", "condition"],
+        rows,
     )

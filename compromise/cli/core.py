@@ -1,143 +1,25 @@
-"""The ``compromise`` command: parses, calls the library, prints. No physics here.
-
-Exit status: 0 answered, 1 infeasible (an answer with its diagnosis), 2 bad input.
-"""
+"""Commands on one case or the catalogue: check, solve, scales, fluids, groups, tolerance."""
 
 from __future__ import annotations
 
-import json
-import math
-import sys
 from pathlib import Path
 from typing import Annotated, Any
 
 import typer
-from typer.core import TyperCommand, TyperGroup
 
-
-def _as_flags(params: list[Any]) -> list[Any]:
-    """Boolean flags (``--json``, ``--help``) shown as flags in the help, without a type."""
-    for p in params:
-        if getattr(p, "is_flag", False) and not getattr(p, "count", False):
-            p.metavar = ""
-    return params
-
-
-class _Command(TyperCommand):
-    """A command whose help shows boolean flags as flags (not ``--json <bool>``)."""
-
-    def get_params(self, ctx: Any) -> list[Any]:
-        return _as_flags(super().get_params(ctx))
-
-
-class _Group(TyperGroup):
-    """The command group, with the same help for flags as :class:`_Command`."""
-
-    def get_params(self, ctx: Any) -> list[Any]:
-        return _as_flags(super().get_params(ctx))
-
-
-app = typer.Typer(
-    cls=_Group,
-    name="compromise",
-    help="Choose the length ratio, distortion, model fluid and temperature of a physical flow "
-    "model inside a laboratory's limits, and defend the choice.",
-    context_settings={"help_option_names": ["-h", "--help"]},
-    add_completion=False,
-    no_args_is_help=True,
-    pretty_exceptions_enable=False,
+from compromise.cli.common import (
+    CaseArg,
+    JsonOpt,
+    UnitsOpt,
+    _Command,
+    _guard,
+    _load,
+    _pressure,
+    _print_json,
+    _temperature,
+    _units,
+    app,
 )
-
-CaseArg = Annotated[Path, typer.Argument(help="The case file (TOML).", show_default=False)]
-JsonOpt = Annotated[bool, typer.Option("--json", help="Print one JSON object (SI units, degC).")]
-
-
-def _version(value: bool) -> None:
-    if value:
-        from compromise import __version__
-
-        typer.echo(f"compromise {__version__}")
-        raise typer.Exit()
-
-
-@app.callback()
-def _main(
-    version: Annotated[
-        bool,
-        typer.Option("--version", callback=_version, is_eager=True, help="Print the version."),
-    ] = False,
-) -> None:
-    """Choose the scales of a physical flow model within a laboratory's limits."""
-
-
-def _clean(obj: Any) -> Any:
-    """JSON-safe copy: non-finite floats become null."""
-    if isinstance(obj, float):
-        return obj if math.isfinite(obj) else None
-    if isinstance(obj, dict):
-        return {str(k): _clean(v) for k, v in obj.items()}
-    if isinstance(obj, list | tuple):
-        return [_clean(v) for v in obj]
-    return obj
-
-
-def _print_json(data: Any) -> None:
-    typer.echo(json.dumps(_clean(data), indent=2, allow_nan=False))
-
-
-def _fail(lines: list[str]) -> None:
-    for line in lines:
-        typer.echo(f"error: {line}", err=True)
-    raise typer.Exit(2)
-
-
-def _guard(fn: Any) -> Any:
-    """Run a command body; turn compromise's errors into one line each and exit status 2."""
-    from compromise.errors import CaseError, CaseErrors, CompromiseError
-
-    try:
-        return fn()
-    except CaseErrors as exc:
-        _fail([e.line() for e in exc.errors])
-    except CaseError as exc:
-        _fail([exc.line()])
-    except CompromiseError as exc:
-        _fail([str(exc)])
-    return None
-
-
-def _load(path: Path) -> Any:
-    from compromise.casefile.load import load_case
-
-    return load_case(path)
-
-
-def _temperature(text: str, option: str) -> float:
-    from compromise.errors import CaseError
-    from compromise.units import parse_quantity
-
-    try:
-        value, dim, _ = parse_quantity(text)
-    except ValueError as exc:
-        raise CaseError(str(exc), key=option) from None
-    if dim != (0, 0, 0, 1):
-        raise CaseError(f"expected a temperature such as '20 degC', got {text!r}", key=option)
-    return value
-
-
-def _pressure(text: str, option: str) -> float:
-    from compromise.errors import CaseError
-    from compromise.units import parse_quantity
-
-    try:
-        value, dim, _ = parse_quantity(text)
-    except ValueError as exc:
-        raise CaseError(str(exc), key=option) from None
-    if dim != (1, -1, -2, 0) or value <= 0:
-        raise CaseError(
-            f"expected a positive pressure such as '101325 Pa', got {text!r}", key=option
-        )
-    return value
 
 
 @app.command(cls=_Command)
@@ -182,23 +64,31 @@ def solve(
             "case's phenomena into bounds the design must satisfy.",
         ),
     ] = False,
+    units: UnitsOpt = None,
 ) -> None:
     """Find the design with the least weighted mismatch within every limit."""
 
     def body() -> int:
+        from compromise.presentation.display import to_display
         from compromise.presentation.tables import format_solution
         from compromise.review.answer import solve as run
 
-        sol = run(_load(case), enforce_thresholds=enforce_thresholds)
+        if csv is not None:
+            from compromise.outfiles import check_output_folder
+
+            check_output_folder(csv, key="--csv")
+        c = _load(case)
+        system, explicit = _units(units, c)
+        sol = run(c, enforce_thresholds=enforce_thresholds)
         data = sol.to_dict()
         if csv is not None:
             from compromise.presentation.tables import write_csv
 
-            write_csv(data, csv)
+            write_csv(to_display(data, system) if explicit else data, csv)
         if json_out:
             _print_json(data)
         else:
-            typer.echo(format_solution(data))
+            typer.echo(format_solution(to_display(data, system)))
         return 0 if sol.feasible else 1
 
     code = _guard(body)
@@ -541,190 +431,3 @@ def tolerance(
 
     code = _guard(body)
     raise typer.Exit(code or 0)
-
-
-OutOpt = Annotated[
-    Path | None,
-    typer.Option(
-        "-o",
-        "--out",
-        help="Folder for the CSV, PNG and SVG files (default: out/<case name>/).",
-        show_default=False,
-    ),
-]
-
-
-def _axes_list(first: str | None, more: list[str] | None) -> list[str]:
-    """Axis names given as ``--opt A B [C]`` (the rest arrive as arguments) or ``A,B``."""
-    names = [n.strip() for n in (first or "").split(",") if n.strip()]
-    for item in more or []:
-        names.extend(n.strip() for n in item.split(",") if n.strip())
-    return names
-
-
-def _written(paths: list[Path]) -> str:
-    return "Wrote: " + ", ".join(str(p) for p in paths)
-
-
-@app.command(cls=_Command)
-def tradeoff(
-    case: CaseArg,
-    between: Annotated[
-        str,
-        typer.Option(
-            "--between",
-            help="The axes, two or three, each a thing to keep small: a "
-            "group's name (its absolute log-mismatch), 'total' (the weighted mismatch),"
-            " a quantity's name (its model value), 'plan_area' or 'distortion'. Write "
-            "them after the option: --between total discharge.",
-            show_default=False,
-        ),
-    ],
-    more: Annotated[
-        list[str] | None,
-        typer.Argument(
-            help="The second (and third) axis of --between.", show_default=False, metavar="AXIS..."
-        ),
-    ] = None,
-    points: Annotated[
-        int,
-        typer.Option(
-            "--points",
-            min=2,
-            help="Epsilon values of the final sweep (points "
-            "on the front, before duplicates are dropped).",
-        ),
-    ] = 100,
-    keep_limits: Annotated[
-        bool,
-        typer.Option(
-            "--keep-limits",
-            help="Keep the case's maxima on the axes' own "
-            "quantities; by default they are lifted, so the front shows what "
-            "relaxing them buys.",
-        ),
-    ] = False,
-    out: OutOpt = None,
-    json_out: JsonOpt = False,
-) -> None:
-    """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
-
-    def body() -> int:
-        from compromise.explore.tradeoffs import trace_front
-        from compromise.presentation.explore_tables import format_front, write_front
-        from compromise.review.provenance import stamped
-
-        front = trace_front(
-            _load(case), _axes_list(between, more), points=points, lift=not keep_limits
-        )
-        paths = write_front(front, out or Path("out") / case.stem)
-        if json_out:
-            _print_json(stamped(front.to_dict(), front.case))
-        else:
-            typer.echo(format_front(front))
-            typer.echo("\n" + _written(paths))
-        return 0 if front.points else 1
-
-    code = _guard(body)
-    raise typer.Exit(code or 0)
-
-
-@app.command("map", cls=_Command)
-def map_(
-    case: CaseArg,
-    axes: Annotated[
-        str | None,
-        typer.Option(
-            "--axes",
-            help="Two decision variables among horizontal_ratio, "
-            "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
-            "horizontal_ratio distortion (default: those two when the case allows "
-            "distortion, else horizontal_ratio and temperature).",
-            show_default=False,
-        ),
-    ] = None,
-    more: Annotated[
-        list[str] | None,
-        typer.Argument(help="The second axis of --axes.", show_default=False, metavar="AXIS"),
-    ] = None,
-    fluid: Annotated[
-        str | None,
-        typer.Option(
-            "--fluid",
-            help="Model fluid of the map (default: the solver's choice).",
-            show_default=False,
-        ),
-    ] = None,
-    resolution: Annotated[
-        int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
-    ] = 81,
-    out: OutOpt = None,
-    json_out: JsonOpt = False,
-) -> None:
-    """Draw the feasible window over two decision variables, with the mismatch inside it."""
-
-    def body() -> int:
-        from compromise.explore.designmap import design_map
-        from compromise.presentation.explore_tables import format_map, write_map
-        from compromise.review.provenance import stamped
-
-        names = _axes_list(axes, more)
-        dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
-        paths = write_map(dmap, out or Path("out") / case.stem)
-        if json_out:
-            _print_json(stamped(dmap.to_dict(), dmap.case))
-        else:
-            typer.echo(format_map(dmap))
-            typer.echo("\n" + _written(paths))
-        return 0 if dmap.feasible_share > 0 else 1
-
-    code = _guard(body)
-    raise typer.Exit(code or 0)
-
-
-@app.command(cls=_Command)
-def sensitivity(
-    case: CaseArg,
-    spread: Annotated[
-        float,
-        typer.Option(
-            "--spread",
-            help="Each weight is multiplied by a factor drawn "
-            "log-uniformly between 1/SPREAD and SPREAD.",
-        ),
-    ] = 10.0,
-    samples: Annotated[
-        int, typer.Option("--samples", min=1, help="Number of weight samples.")
-    ] = 2000,
-    seed: Annotated[
-        int, typer.Option("--seed", help="Seed of the random generator (same seed, same answer).")
-    ] = 0,
-    out: OutOpt = None,
-    json_out: JsonOpt = False,
-) -> None:
-    """How often each candidate design (fluid x preferred ratio) is best when weights vary."""
-
-    def body() -> int:
-        from compromise.explore.sensitivity import weight_sensitivity
-        from compromise.presentation.explore_tables import format_sensitivity, write_sensitivity
-        from compromise.review.provenance import stamped
-
-        sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
-        paths = write_sensitivity(sens, out or Path("out") / case.stem)
-        if json_out:
-            _print_json(stamped(sens.to_dict(), sens.case))
-        else:
-            typer.echo(format_sensitivity(sens))
-            typer.echo("\n" + _written(paths))
-        return 0 if sens.nominal >= 0 else 1
-
-    code = _guard(body)
-    raise typer.Exit(code or 0)
-
-
-def main() -> None:
-    """Entry point of the ``compromise`` command."""
-    try:
-        app()
-    except KeyboardInterrupt:  # pragma: no cover
-        sys.exit(130)

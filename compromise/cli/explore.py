@@ -1,0 +1,187 @@
+"""Commands of the trade-off explorer: tradeoff, map, sensitivity."""
+
+from __future__ import annotations
+
+from pathlib import Path
+from typing import Annotated
+
+import typer
+
+from compromise.cli.common import (
+    CaseArg,
+    JsonOpt,
+    OutOpt,
+    _Command,
+    _guard,
+    _load,
+    _print_json,
+    app,
+)
+
+
+def _axes_list(first: str | None, more: list[str] | None) -> list[str]:
+    """Axis names given as ``--opt A B [C]`` (the rest arrive as arguments) or ``A,B``."""
+    names = [n.strip() for n in (first or "").split(",") if n.strip()]
+    for item in more or []:
+        names.extend(n.strip() for n in item.split(",") if n.strip())
+    return names
+
+
+def _written(paths: list[Path]) -> str:
+    return "Wrote: " + ", ".join(str(p) for p in paths)
+
+
+@app.command(cls=_Command)
+def tradeoff(
+    case: CaseArg,
+    between: Annotated[
+        str,
+        typer.Option(
+            "--between",
+            help="The axes, two or three, each a thing to keep small: a "
+            "group's name (its absolute log-mismatch), 'total' (the weighted mismatch),"
+            " a quantity's name (its model value), 'plan_area' or 'distortion'. Write "
+            "them after the option: --between total discharge.",
+            show_default=False,
+        ),
+    ],
+    more: Annotated[
+        list[str] | None,
+        typer.Argument(
+            help="The second (and third) axis of --between.", show_default=False, metavar="AXIS..."
+        ),
+    ] = None,
+    points: Annotated[
+        int,
+        typer.Option(
+            "--points",
+            min=2,
+            help="Epsilon values of the final sweep (points "
+            "on the front, before duplicates are dropped).",
+        ),
+    ] = 100,
+    keep_limits: Annotated[
+        bool,
+        typer.Option(
+            "--keep-limits",
+            help="Keep the case's maxima on the axes' own "
+            "quantities; by default they are lifted, so the front shows what "
+            "relaxing them buys.",
+        ),
+    ] = False,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
+
+    def body() -> int:
+        from compromise.explore.tradeoffs import trace_front
+        from compromise.presentation.explore_tables import format_front, write_front
+        from compromise.review.provenance import stamped
+
+        front = trace_front(
+            _load(case), _axes_list(between, more), points=points, lift=not keep_limits
+        )
+        paths = write_front(front, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(stamped(front.to_dict(), front.case))
+        else:
+            typer.echo(format_front(front))
+            typer.echo("\n" + _written(paths))
+        return 0 if front.points else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
+@app.command("map", cls=_Command)
+def map_(
+    case: CaseArg,
+    axes: Annotated[
+        str | None,
+        typer.Option(
+            "--axes",
+            help="Two decision variables among horizontal_ratio, "
+            "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
+            "horizontal_ratio distortion (default: those two when the case allows "
+            "distortion, else horizontal_ratio and temperature).",
+            show_default=False,
+        ),
+    ] = None,
+    more: Annotated[
+        list[str] | None,
+        typer.Argument(help="The second axis of --axes.", show_default=False, metavar="AXIS"),
+    ] = None,
+    fluid: Annotated[
+        str | None,
+        typer.Option(
+            "--fluid",
+            help="Model fluid of the map (default: the solver's choice).",
+            show_default=False,
+        ),
+    ] = None,
+    resolution: Annotated[
+        int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
+    ] = 81,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """Draw the feasible window over two decision variables, with the mismatch inside it."""
+
+    def body() -> int:
+        from compromise.explore.designmap import design_map
+        from compromise.presentation.explore_tables import format_map, write_map
+        from compromise.review.provenance import stamped
+
+        names = _axes_list(axes, more)
+        dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
+        paths = write_map(dmap, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(stamped(dmap.to_dict(), dmap.case))
+        else:
+            typer.echo(format_map(dmap))
+            typer.echo("\n" + _written(paths))
+        return 0 if dmap.feasible_share > 0 else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)
+
+
+@app.command(cls=_Command)
+def sensitivity(
+    case: CaseArg,
+    spread: Annotated[
+        float,
+        typer.Option(
+            "--spread",
+            help="Each weight is multiplied by a factor drawn "
+            "log-uniformly between 1/SPREAD and SPREAD.",
+        ),
+    ] = 10.0,
+    samples: Annotated[
+        int, typer.Option("--samples", min=1, help="Number of weight samples.")
+    ] = 2000,
+    seed: Annotated[
+        int, typer.Option("--seed", help="Seed of the random generator (same seed, same answer).")
+    ] = 0,
+    out: OutOpt = None,
+    json_out: JsonOpt = False,
+) -> None:
+    """How often each candidate design (fluid x preferred ratio) is best when weights vary."""
+
+    def body() -> int:
+        from compromise.explore.sensitivity import weight_sensitivity
+        from compromise.presentation.explore_tables import format_sensitivity, write_sensitivity
+        from compromise.review.provenance import stamped
+
+        sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
+        paths = write_sensitivity(sens, out or Path("out") / case.stem)
+        if json_out:
+            _print_json(stamped(sens.to_dict(), sens.case))
+        else:
+            typer.echo(format_sensitivity(sens))
+            typer.echo("\n" + _written(paths))
+        return 0 if sens.nominal >= 0 else 1
+
+    code = _guard(body)
+    raise typer.Exit(code or 0)

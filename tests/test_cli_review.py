@@ -111,7 +111,7 @@ def test_compare_saved_answer_and_specs(tmp_path: Path) -> None:
     assert objective["best"] == [0]  # the optimum, among the designs that hold
     text = (tmp_path / "out" / "comparison.csv").read_text()
     assert text.splitlines()[0] == (
-        "section,row,unit,optimum.json,\"1:40/1:10@water,25degC\",1:100/1:25,best"
+        'section,row,unit,optimum.json,"1:40/1:10@water,25degC",1:100/1:25,best'
     )
     table = run("compare", RIVER, str(saved), "1:100/1:25")
     assert " *" in table.output and "[limit margin]" in table.output
@@ -156,3 +156,22 @@ def test_bad_display_units_key_is_one_line(tmp_path: Path) -> None:
     r = run("check", str(case))
     assert r.exit_code == 2
     assert "display_units: expected 'si' or 'us', got 'metric'" in r.output
+
+
+@pytest.mark.parametrize("name", sorted(p.stem for p in CASES.glob("*.toml")))
+def test_evaluate_and_compare_on_every_bundled_case(name: str, tmp_path: Path) -> None:
+    case = str(CASES / f"{name}.toml")
+    saved = tmp_path / "answer.json"
+    saved.write_text(run("solve", case, "--json").stdout)
+    best = json.loads(saved.read_text())["design"]
+    ratio = f"1:{1 / best['horizontal_ratio'] * 1.25:.6g}"  # a smaller model than the optimum
+    ev = run("evaluate", case, "--ratio", ratio, "--json")
+    assert ev.exit_code in (0, 1), ev.output
+    data = json.loads(ev.stdout)
+    assert data["status"] == ("holds" if ev.exit_code == 0 else "violates")
+    assert data["optimum"]["status"] == "optimal"
+    text = run("evaluate", case, "--ratio", ratio)
+    assert text.exit_code == ev.exit_code and "Distance from the optimum" in text.output
+    cmp = run("compare", case, str(saved), ratio, "--csv", str(tmp_path / "csv"))
+    assert cmp.exit_code == 0, cmp.output
+    assert (tmp_path / "csv" / "comparison.csv").is_file()

@@ -170,3 +170,20 @@ def test_manual_p576_rounded_proposal_overfills_the_hall(manual) -> None:
     # 0.023 x 2640 ft = 60.72 ft against 60 ft: 0.72 ft over, 1.2 %
     assert_allclose(v.excess / FT, 0.72, rtol=1e-9)
     assert_allclose(v.margin, -0.012, rtol=1e-9)
+
+
+def test_without_a_velocity_law_the_default_velocity_has_the_least_mismatch() -> None:
+    tunnel = load_case(CASES / "wind_tunnel.toml")  # keeps no group exactly, has no Froude
+    design, notes = design_from_spec(tunnel, DesignSpec(ratio=0.25))
+    assert any("least weighted mismatch" in n for n in notes)
+    best = evaluate(tunnel, design).evaluation.objective
+    for f in (0.98, 0.995, 1.005, 1.02):  # a brute-force check around the closed form
+        other = Design(
+            design.fluid,
+            design.temperature,
+            design.pressure,
+            0.25,
+            0.25,
+            design.velocity_ratio * f,
+        )
+        assert evaluate(tunnel, other).evaluation.objective > best

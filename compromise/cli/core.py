@@ -82,7 +82,7 @@ def solve(
         sol = run(c, enforce_thresholds=enforce_thresholds)
         data = sol.to_dict()
         if csv is not None:
-            from compromise.presentation.tables import write_csv
+            from compromise.presentation.csv_tables import write_csv
 
             write_csv(to_display(data, system) if explicit else data, csv)
         if json_out:
@@ -148,6 +148,7 @@ def scales(
             show_default=False,
         ),
     ] = None,
+    units: UnitsOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Print the scale ratio of every kind of quantity, and the case's quantities and groups."""
@@ -212,7 +213,9 @@ def scales(
         if json_out:
             _print_json(data)
         else:
-            typer.echo(format_scales(data))
+            from compromise.presentation.display import to_display
+
+            typer.echo(format_scales(to_display(data, _units(units, c)[0])))
 
     _guard(body)
 

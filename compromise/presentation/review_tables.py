@@ -14,12 +14,10 @@ from typing import Any
 
 from compromise.outfiles import write_text
 from compromise.presentation.tables import (
+    account_lines,
     design_lines,
     effects_lines,
     fmt,
-    groups_table,
-    limits_table,
-    quantities_table,
     table,
 )
 from compromise.review.wording import CAUTION
@@ -44,30 +42,7 @@ def format_review(r: dict[str, Any]) -> str:
         out += ["", "Violations (amounts in the bound's own unit):"]
         out += [f"  - {violation_text(v)}" for v in r["violations"]]
     out += ["", *distance_lines(r)]
-    conds = r.get("conditions")
-    if conds:
-        for name, c in conds.items():
-            out += [
-                "",
-                f"Groups in condition '{name}' (weight {fmt(c['weight'])}):",
-                groups_table(c["groups"]),
-            ]
-    else:
-        out += ["", "Groups:", groups_table(r["groups"])]
-    out += [
-        "",
-        "Limits (worst condition):",
-        limits_table(r["limits"], r.get("quantities"), r.get("unit_system", "si")),
-    ]
-    if conds:
-        for name, c in conds.items():
-            out += [
-                "",
-                f"Quantities in condition '{name}':",
-                quantities_table(c["quantities"], r.get("unit_system", "si")),
-            ]
-    else:
-        out += ["", "Quantities:", quantities_table(r["quantities"], r.get("unit_system", "si"))]
+    out += account_lines(r)
     if r.get("effects"):
         out += ["", *effects_lines(r["effects"])]
     out += ["", CAUTION]

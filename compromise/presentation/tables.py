@@ -33,7 +33,6 @@ __all__ = [
     "limits_table",
     "quantities_table",
     "table",
-    "write_csv",
 ]
 
 
@@ -178,6 +177,40 @@ def alternatives_lines(alternatives: list[dict[str, Any]], chosen: str | None) -
     return out
 
 
+def account_lines(data: dict[str, Any]) -> list[str]:
+    """Groups per condition, limits (with what each binding one costs, where priced) and
+    quantities per condition: the account shared by ``solve`` and ``evaluate``."""
+    out: list[str] = []
+    system = data.get("unit_system", "si")
+    conds = data.get("conditions")
+    if conds:
+        for name, c in conds.items():
+            out += [
+                "",
+                f"Groups in condition '{name}' (weight {fmt(c['weight'])}):",
+                groups_table(c["groups"]),
+            ]
+    else:
+        out += ["", "Groups:", groups_table(data["groups"])]
+    out += [
+        "",
+        "Limits (worst condition):",
+        limits_table(data["limits"], data.get("quantities"), system),
+    ]
+    if data.get("binding"):
+        out += ["", *binding_lines(data["binding"], _bound_units(data))]
+    if conds:
+        for name, c in conds.items():
+            out += [
+                "",
+                f"Quantities in condition '{name}':",
+                quantities_table(c["quantities"], system),
+            ]
+    else:
+        out += ["", "Quantities:", quantities_table(data["quantities"], system)]
+    return out
+
+
 def format_solution(sol: dict[str, Any]) -> str:
     """The readable answer of ``compromise solve``."""
     out = [sol.get("title", ""), ""]
@@ -189,37 +222,7 @@ def format_solution(sol: dict[str, Any]) -> str:
         return "\n".join(out)
     out.append(f"Best design (weighted mismatch {fmt(sol['objective'], 6)}):")
     out += design_lines(sol["design"])
-    conds = sol.get("conditions")
-    if conds:
-        for name, c in conds.items():
-            out += [
-                "",
-                f"Groups in condition '{name}' (weight {fmt(c['weight'])}):",
-                groups_table(c["groups"]),
-            ]
-    else:
-        out += ["", "Groups:", groups_table(sol["groups"])]
-    out += [
-        "",
-        "Limits (worst condition):",
-        limits_table(sol["limits"], sol.get("quantities"), sol.get("unit_system", "si")),
-    ]
-    if sol.get("binding"):
-        units = _bound_units(sol)
-        out += ["", *binding_lines(sol["binding"], units)]
-    if conds:
-        for name, c in conds.items():
-            out += [
-                "",
-                f"Quantities in condition '{name}':",
-                quantities_table(c["quantities"], sol.get("unit_system", "si")),
-            ]
-    else:
-        out += [
-            "",
-            "Quantities:",
-            quantities_table(sol["quantities"], sol.get("unit_system", "si")),
-        ]
+    out += account_lines(sol)
     if sol.get("effects"):
         out += ["", *effects_lines(sol["effects"])]
     if sol.get("phenomena_hint"):
@@ -420,7 +423,7 @@ def format_scales(t: dict[str, Any]) -> str:
     where = f" in condition '{t['condition']}'" if t.get("condition") else ""
     quantities = {k: v for k, v in t["quantities"].items() if k not in skip}
     groups = {k: v for k, v in t["groups"].items() if k not in skip}
-    out += ["", f"Quantities{where}:", quantities_table(quantities)]
+    out += ["", f"Quantities{where}:", quantities_table(quantities, t.get("unit_system", "si"))]
     if groups:
         out += ["", f"Groups{where}:", groups_table(groups)]
     if skip:
@@ -462,129 +465,6 @@ def format_fluids(data: dict[str, Any], temperature: float) -> str:
     if notes:
         out += "\n" + TAG_LEGEND
     return out
-
-
-def _limit_unit(key: str, sol: dict[str, Any]) -> str:
-    """A limit's unit: its quantity's, or ``-`` for a group's floor or ceiling."""
-    return sol.get("quantities", {}).get(key.rsplit(".", 1)[0], {}).get("unit", "-")
-
-
-def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
-    """Write the tables of a solution (``to_dict()`` form) as CSV files into ``folder``.
-
-    Files: ``design.csv``, ``groups.csv``, ``limits.csv``, ``quantities.csv``,
-    ``alternatives.csv`` (and ``conflict.csv`` when infeasible). Values are in the units of
-    ``sol`` (SI as computed, or as :func:`compromise.presentation.display.to_display` made
-    them); the ``unit`` columns and the design's headers say which. Each file goes through
-    :mod:`compromise.outfiles` (temporary name, then rename).
-    """
-    import csv
-    import io
-    from pathlib import Path
-
-    from compromise.outfiles import check_output_folder, write_text
-
-    folder = check_output_folder(Path(folder), key="--csv")
-    tables: dict[str, tuple[list[str], list[list[Any]]]] = {}
-    if sol["status"] == "optimal":
-        d = {k: v for k, v in sol["design"].items() if not k.endswith(("_unit", "_si"))}
-        units = {
-            "temperature": sol["design"].get("temperature_unit", "degC"),
-            "pressure": sol["design"].get("pressure_unit", "Pa"),
-        }
-        tables["design"] = (
-            [f"{k} [{units[k]}]" if k in units else k for k in d],
-            [list(d.values())],
-        )
-        conds = sol.get("conditions") or {
-            "design": {"groups": sol["groups"], "quantities": sol["quantities"]}
-        }
-        rows = []
-        for cname, c in conds.items():
-            for n, g in c["groups"].items():
-                rows.append(
-                    [cname, n, g["prototype"], g["model"], g["mismatch"], g["factor"], g["weight"]]
-                )
-        tables["groups"] = (
-            ["condition", "group", "prototype", "model", "mismatch", "factor", "weight"],
-            rows,
-        )
-        rows = [
-            [
-                n,
-                lim["kind"],
-                lim["bound"],
-                lim["model"],
-                lim["margin"],
-                lim["binding"],
-                lim.get("condition"),
-                lim.get("unit") or _limit_unit(n, sol),
-            ]
-            for n, lim in sol["limits"].items()
-        ]
-        tables["limits"] = (
-            ["limit", "kind", "bound", "model", "margin", "binding", "condition", "unit"],
-            rows,
-        )
-        rows = []
-        for cname, c in conds.items():
-            for n, q in c["quantities"].items():
-                rows.append([cname, n, q["prototype"], q["model"], q["ratio"], q["unit"]])
-        tables["quantities"] = (
-            ["condition", "quantity", "prototype", "model", "ratio", "unit"],
-            rows,
-        )
-    else:
-        rows = [
-            [k, sol["relaxation"].get(k), sol.get("conditions", {}).get(k)]
-            for k in sol.get("conflict", [])
-        ]
-        tables["conflict"] = (["key", "relaxed_bound", "condition"], rows)
-    rows = []
-    for a in sol.get("alternatives", []):
-        d = a["design"] or {}
-        rows.append(
-            [
-                a["kind"],
-                a["label"],
-                a["feasible"],
-                a["objective"],
-                a.get("tied", False),
-                d.get("fluid"),
-                d.get("temperature"),
-                d.get("horizontal_ratio"),
-                d.get("vertical_ratio"),
-                d.get("velocity_ratio"),
-                a["separator"],
-            ]
-        )
-    tables["alternatives"] = (
-        [
-            "kind",
-            "label",
-            "feasible",
-            "objective",
-            "tied",
-            "fluid",
-            "temperature",
-            "horizontal_ratio",
-            "vertical_ratio",
-            "velocity_ratio",
-            "separator",
-        ],
-        rows,
-    )
-    written = []
-    for name, (head, rows) in tables.items():
-        buf = io.StringIO()
-        w = csv.writer(buf, lineterminator="\n")
-        w.writerow(head)
-        for r in rows:
-            w.writerow(["" if v is None else (repr(v) if isinstance(v, float) else v) for v in r])
-        target = folder / f"{name}.csv"
-        write_text(target, buf.getvalue())
-        written.append(str(target))
-    return written
 
 
 def format_tolerance(data: dict[str, Any]) -> str:

@@ -227,23 +227,66 @@ def design_from_spec(case: Case, spec: DesignSpec) -> tuple[Design, tuple[str, .
             f"model temperature {to_celsius(temperature):.1f} degC: the lowest the case allows"
         )
     pressure = case.model.pressure[0] if spec.pressure is None else spec.pressure
+    lo_p, hi_p = case.model.pressure
+    if spec.pressure is None and hi_p > lo_p:
+        notes.append(f"model pressure {pressure:.6g} Pa: the lowest the case allows")
     if spec.vertical is not None and spec.distortion is not None:
         raise CaseError("give a vertical ratio or a distortion, not both", key="--distortion")
     vertical = spec.vertical
     if vertical is None and spec.distortion is not None:
         vertical = spec.ratio * spec.distortion
+    velocity = spec.velocity
+    if velocity is None and not _has_velocity_law(case):
+        velocity = _least_mismatch_velocity(
+            case, spec.ratio, vertical or spec.ratio, fluid, temperature, pressure
+        )
+        notes.append(
+            f"velocity ratio {format_ratio(velocity)}: the least weighted mismatch for these "
+            "length ratios and this fluid (the case keeps no group exactly)"
+        )
     design, rule = design_by_rule(
         case,
         spec.ratio,
         vertical=vertical,
-        velocity=spec.velocity,
+        velocity=velocity,
         fluid=fluid,
         temperature=temperature,
         pressure=pressure,
     )
-    if not isinstance(spec.velocity, float):
+    if velocity is None or isinstance(velocity, str):
         notes.append(f"velocity ratio {format_ratio(design.velocity_ratio)}: {rule}")
     return design, tuple(notes)
+
+
+def _has_velocity_law(case: Case) -> bool:
+    """Whether the case names a velocity law: a kept (exact) group or a Froude group."""
+    return "froude" in case.groups or any(g.exact for g in case.groups.values())
+
+
+def _least_mismatch_velocity(
+    case: Case, ratio: float, vertical: float, fluid: str, temperature: float, pressure: float
+) -> float:
+    """The velocity ratio with the least weighted mismatch for given lengths and fluid state.
+
+    With the lengths and the fluid fixed, every power-product group's log-mismatch is affine
+    in ``v = ln V``, so the weighted sum of squares is a parabola in ``v`` whose minimum is
+    closed-form (limits are not imposed: a proposal is reviewed, not optimised).
+    """
+    import numpy as np
+
+    from compromise.solving.design import property_log_ratios
+    from compromise.solving.problem import build_problem
+
+    pr = build_problem(case)
+    p = np.nan_to_num(property_log_ratios(case, fluid, temperature, pressure))
+    a_v = pr.A[:, 2]
+    rest = pr.A[:, 0] * math.log(ratio) + pr.A[:, 1] * math.log(vertical) + pr.B @ p
+    den = float(np.sum(pr.W * a_v**2))
+    if den <= 0:
+        raise CaseError(
+            "no weighted group involves velocity; give the velocity ratio", key="--velocity"
+        )
+    return math.exp(-float(np.sum(pr.W * a_v * rest)) / den)
 
 
 # --------------------------------------------------------------------------------------------
@@ -408,6 +451,7 @@ def _differences(ev: Evaluation, best: Evaluation | None) -> tuple[Difference, .
     out = []
     for name in mine:
         a, b = mine[name], theirs.get(name, 0.0)
+        a, b = (0.0 if abs(a) < NOISE else a), (0.0 if abs(b) < NOISE else b)
         gap = a - b
         if abs(gap) < NOISE:
             continue

@@ -112,6 +112,29 @@ def grid_points(lo: float, hi: float, n: int, log: bool = False) -> np.ndarray:
     return np.geomspace(lo, hi, n) if log else np.linspace(lo, hi, n)
 
 
+def source_logs(fluid: object, T: float, P: float) -> np.ndarray:
+    """``ln`` of rho, mu, nu, sigma, c (and 0 for g) from a fluid's source models at (T, P),
+    kept on the fluid like its properties, so later solves ask for the same state at no cost."""
+    from compromise.solving.problem import property_environment
+
+    cache = fluid.__dict__.setdefault("_source_logs", {})
+    key = (float(T), float(P))
+    hit = cache.get(key)
+    if hit is None:
+        if len(cache) >= 20000:
+            cache.clear()
+        env = property_environment(fluid.properties(T, P))  # type: ignore[attr-defined]
+        hit = np.array(
+            [
+                0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
+                for n in PROPERTY_NAMES
+            ]
+        )
+        hit.flags.writeable = False
+        cache[key] = hit
+    return hit
+
+
 class FluidStates:
     """Property log-ratios of one model fluid over the case's temperature (and pressure) range."""
 
@@ -135,6 +158,7 @@ class FluidStates:
         self.used = np.array([n in used for n in PROPERTY_NAMES])
         self.gas = self.fluid.phase == "gas"
         self._exact: dict[tuple[float, float], np.ndarray] = {}
+        self._grid_p: dict[tuple[bytes, float], np.ndarray] = {}
         m = case.model
         self.t_range = m.temperature
         missing = [
@@ -165,8 +189,20 @@ class FluidStates:
         return p
 
     def p(self, T: np.ndarray, P: float) -> np.ndarray:
-        """Property log-ratios (N, 6) at temperatures ``T`` [K] and pressure ``P`` [Pa]."""
-        return self._p(np.atleast_1d(T), P)
+        """Property log-ratios (N, 6) at temperatures ``T`` [K] and pressure ``P`` [Pa].
+
+        Memoised per (temperatures, pressure): the searches of several scenarios (relaxed
+        limits, fixed ratios) often ask for the same zoom grid.
+        """
+        T = np.atleast_1d(np.asarray(T, dtype=float))
+        key = (T.tobytes(), float(P))
+        hit = self._grid_p.get(key)
+        if hit is None:
+            if len(self._grid_p) >= 4096:
+                self._grid_p.clear()
+            hit = self._grid_p[key] = self._p(T, P)
+            hit.flags.writeable = False
+        return hit
 
     def exact_p(self, T: float, P: float) -> np.ndarray:
         """Property log-ratios from the source models (not the splines), memoised per state."""
@@ -178,17 +214,7 @@ class FluidStates:
         return hit
 
     def _exact_p(self, T: float, P: float) -> np.ndarray:
-        from compromise.solving.problem import property_environment
-
-        env = property_environment(self.fluid.properties(T, P))
-        with np.errstate(invalid="ignore", divide="ignore"):
-            logs = np.array(
-                [
-                    0.0 if n == "g" else math.log(env[n]) if env[n] > 0 else np.nan
-                    for n in PROPERTY_NAMES
-                ]
-            )
-        p = logs - self.proto_log
+        p = source_logs(self.fluid, T, P) - self.proto_log
         p[~self.used] = 0.0
         return p
 

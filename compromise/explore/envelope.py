@@ -112,6 +112,8 @@ def lower_envelope(
     best_v = np.full(n_items, np.inf)
     step_t = np.zeros(n_items)
     step_p = np.zeros(n_items)
+    # every fluid's grid in one batched evaluation
+    parts = []
     for k, sp in enumerate(spaces):
         items = np.flatnonzero(fluid == k)
         if items.size == 0:
@@ -127,20 +129,23 @@ def lower_envelope(
         it = np.repeat(items, ng)
         T = np.tile(gt, items.size) if temperature is None else np.repeat(temperature[items], ng)
         lp = np.tile(gp, items.size)
-        if temperature is None:
-            p = np.tile(sp.p(gt, gp), (items.size, 1))
-        else:
-            p = sp.p(T, lp)
-        v = evaluate(it, p).reshape(items.size, ng)
-        j = np.argmin(v, axis=1)
-        rows = np.arange(items.size)
-        best_v[items] = v[rows, j]
-        best_t[items] = T.reshape(items.size, ng)[rows, j]
-        best_lp[items] = lp.reshape(items.size, ng)[rows, j]
+        p = np.tile(sp.p(gt, gp), (items.size, 1)) if temperature is None else sp.p(T, lp)
+        parts.append((items, ng, it, T, lp, p))
         if temperature is None and grid.size > 1:
             step_t[items] = grid[1] - grid[0]
         if sp.variable_pressure:
             step_p[items] = sp.lnp[1] - sp.lnp[0]
+    if parts:
+        values = evaluate(np.concatenate([x[2] for x in parts]), np.vstack([x[5] for x in parts]))
+        start = 0
+        for items, ng, _, T, lp, _ in parts:
+            v = values[start : start + items.size * ng].reshape(items.size, ng)
+            start += items.size * ng
+            j = np.argmin(v, axis=1)
+            rows = np.arange(items.size)
+            best_v[items] = v[rows, j]
+            best_t[items] = T.reshape(items.size, ng)[rows, j]
+            best_lp[items] = lp.reshape(items.size, ng)[rows, j]
     passes = 2 if np.any(step_p > 0) else 1
     for _ in range(passes):
         for which, first in (("t", step_t), ("p", step_p)):
@@ -150,6 +155,7 @@ def lower_envelope(
                 if live.size == 0:
                     break
                 offsets = np.linspace(-1.0, 1.0, N_ZOOM)
+                parts = []
                 for k, sp in enumerate(spaces):
                     items = live[fluid[live] == k]
                     if items.size == 0:
@@ -162,8 +168,15 @@ def lower_envelope(
                         lo, hi = sp.lnp_range
                         lp = np.clip(best_lp[items, None] + step[items, None] * offsets, lo, hi)
                         T = np.broadcast_to(best_t[items, None], lp.shape)
-                    p = sp.p(T.ravel(), lp.ravel())
-                    v = evaluate(np.repeat(items, N_ZOOM), p).reshape(items.size, N_ZOOM)
+                    parts.append((items, T, lp, sp.p(T.ravel(), lp.ravel())))
+                values = evaluate(
+                    np.concatenate([np.repeat(x[0], N_ZOOM) for x in parts]),
+                    np.vstack([x[3] for x in parts]),
+                )
+                start = 0
+                for items, T, lp, _ in parts:
+                    v = values[start : start + items.size * N_ZOOM].reshape(items.size, N_ZOOM)
+                    start += items.size * N_ZOOM
                     j = np.argmin(v, axis=1)
                     rows = np.arange(items.size)
                     better = v[rows, j] < best_v[items]

@@ -35,6 +35,8 @@ def nondominated(values: np.ndarray, tol: float = TOL) -> np.ndarray:
     if n == 0:
         return np.zeros(0, dtype=int)
     t = tol * (1.0 + np.abs(v))
+    if v.shape[1] == 2 and np.all(np.isfinite(v)):
+        return _nondominated_2d(v, t)
     le = np.all(v[:, None, :] <= v[None, :, :] + t[None, :, :], axis=2)  # j no worse than i
     lt = np.any(v[:, None, :] < v[None, :, :] - t[None, :, :], axis=2)
     dominated = np.any(le & lt, axis=0)
@@ -42,6 +44,34 @@ def nondominated(values: np.ndarray, tol: float = TOL) -> np.ndarray:
     first = np.argmax(same, axis=0)  # the first copy of each point
     keep = ~dominated & (first == np.arange(n))
     return np.flatnonzero(keep)
+
+
+def _nondominated_2d(v: np.ndarray, t: np.ndarray) -> np.ndarray:
+    """:func:`nondominated` for two axes in O(n log n) plus the survivors' duplicate check.
+
+    Point ``j`` is dominated when some ``i`` has ``v_i <= v_j + t_j`` on both axes and
+    ``v_i < v_j - t_j`` on one. Split by the strict axis: (a) strict on axis 1 needs
+    ``v_i0 <= v_j0 + t_j0`` (a prefix of the points sorted on axis 0) and
+    ``v_i1 < v_j1 - t_j1``; (b) strict on axis 0 needs ``v_i0 < v_j0 - t_j0`` (a shorter
+    prefix) and ``v_i1 <= v_j1 + t_j1``. Both are prefix minima of axis 1, so the same
+    comparisons as the pairwise test decide, and the answer is the same.
+    """
+    order = np.argsort(v[:, 0], kind="stable")
+    s0 = v[order, 0]
+    pm = np.concatenate([[np.inf], np.minimum.accumulate(v[order, 1])])  # min of the first k
+    hi = np.searchsorted(s0, v[:, 0] + t[:, 0], side="right")
+    lo = np.searchsorted(s0, v[:, 0] - t[:, 0], side="left")
+    dominated = (pm[hi] < v[:, 1] - t[:, 1]) | (pm[lo] <= v[:, 1] + t[:, 1])
+    cand = np.flatnonzero(~dominated)
+    if cand.size == 0:
+        return cand
+    # duplicates: keep a survivor only if no earlier point is the same within the tolerance
+    vc, tc = v[cand], t[cand]
+    le_ij = np.all(v[:, None, :] <= (vc + tc)[None, :, :], axis=2)  # i no worse than j
+    le_ji = np.all(vc[None, :, :] <= (v + t)[:, None, :], axis=2)  # j no worse than i
+    same = le_ij & le_ji
+    first = np.argmax(same, axis=0)
+    return cand[first == cand]
 
 
 def knee_index(values: np.ndarray) -> int:

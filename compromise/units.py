@@ -13,6 +13,27 @@ from typing import Any
 
 ZERO_CELSIUS = 273.15
 
+#: Every number compromise accepts (after conversion to SI) lies in this range of magnitudes,
+#: or is zero where zero is allowed: its logarithm, square, cube and reciprocal then stay
+#: finite in float64 (largest about 1.8e308, smallest normal 2.2e-308).
+SAFE_MIN = 1e-150
+SAFE_MAX = 1e150
+
+#: Scale ratios (model over prototype) are tighter: a quantity scales as a power of a ratio
+#: up to about the 4th (power, force), and a group's exponents rarely pass 25, so 1e12 keeps
+#: every derived ratio finite.
+RATIO_MIN = 1e-12
+RATIO_MAX = 1e12
+
+#: The largest exponent a unit may carry (``m^12``); towers such as ``m**(9**9**9)`` are
+#: refused before pint evaluates them.
+MAX_UNIT_EXPONENT = 12
+
+#: The longest run of digits accepted in a unit string.
+_MAX_UNIT_DIGITS = 8
+
+_RANGE = "1e-150 and 1e150"
+
 # Base dimensions in the order used for dimension vectors everywhere in compromise.
 BASE_DIMENSIONS = ("[mass]", "[length]", "[time]", "[temperature]")
 
@@ -120,6 +141,116 @@ def _known(unit_text: str) -> bool:
     return all(k in BASE_DIMENSIONS for k in unit.dimensionality)
 
 
+def number_text(value: Any) -> str:
+    """A number written shortly for a message: long integers and extreme floats in scientific
+    form (``1.00e+400``), other values as ``repr``.
+
+    Examples
+    --------
+    >>> number_text(10**400)
+    '1.00e+400'
+    >>> number_text(2.5)
+    '2.5'
+    """
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        return repr(value)
+    if isinstance(value, int):
+        digits = str(abs(value)) if abs(value) < 10**4000 else None
+        if digits is None:
+            return ("-" if value < 0 else "") + "an integer of more than 4000 digits"
+        if len(digits) <= 15:
+            return str(value)
+        sign = "-" if value < 0 else ""
+        return f"{sign}{digits[0]}.{digits[1:3]}e+{len(digits) - 1}"
+    return repr(value)
+
+
+def checked_number(value: Any, what: str = "a number") -> float:
+    """``value`` as a float, refused unless finite and zero or within ``SAFE_MIN..SAFE_MAX``.
+
+    This is the one gate every number from a case file or the command line passes, so that
+    its logarithm, square and reciprocal stay finite downstream.
+
+    Raises
+    ------
+    ValueError
+        With a message naming what was expected and the number in short form.
+
+    Examples
+    --------
+    >>> checked_number(3)
+    3.0
+    >>> checked_number(1e-320)
+    Traceback (most recent call last):
+    ...
+    ValueError: expected a number between 1e-150 and 1e150 in size (or 0), got 1e-320
+    """
+    if isinstance(value, bool) or not isinstance(value, int | float):
+        raise ValueError(f"expected {what}, got {value!r}")
+    if isinstance(value, int) and abs(value) > 10**150:
+        raise ValueError(
+            f"expected a number between {_RANGE} in size (or 0), got {number_text(value)}"
+        )
+    v = float(value)
+    if not math.isfinite(v):
+        raise ValueError(f"expected a finite number, got {number_text(value)}")
+    if v != 0 and not SAFE_MIN <= abs(v) <= SAFE_MAX:
+        raise ValueError(
+            f"expected a number between {_RANGE} in size (or 0), got {number_text(value)}"
+        )
+    return v
+
+
+_EXPONENT = re.compile(
+    r"\*\*\s*(\(\s*[-+]?\s*\d+(?:\.\d+)?(?:\s*/\s*\d+)?\s*\)|[-+]?\d+(?:\.\d+)?)"
+)
+
+
+def check_unit_text(unit_text: str) -> None:
+    """Refuse a unit string whose exponents pint would evaluate at great cost or truncate.
+
+    Exponents (``^`` or ``**``) must be a plain number or a parenthesised number or fraction of
+    magnitude at most ``MAX_UNIT_EXPONENT``; an exponent of an exponent is refused; so is any
+    run of more than eight digits. Called before pint sees the text.
+
+    Raises
+    ------
+    ValueError
+        When the unit string is refused.
+
+    Examples
+    --------
+    >>> check_unit_text("m^3/s")
+    >>> check_unit_text("m**(9**9**9)")  # doctest: +ELLIPSIS
+    Traceback (most recent call last):
+    ...
+    ValueError: unit 'm**(9**9**9)': expected exponents that are plain numbers such as m^3 ...
+    """
+    text = unit_text.replace("^", "**")
+    if re.search(r"\d{" + str(_MAX_UNIT_DIGITS + 1) + ",}", text):
+        raise ValueError(f"unit {unit_text!r}: a number of more than {_MAX_UNIT_DIGITS} digits")
+    pos = 0
+    while True:
+        at = text.find("**", pos)
+        if at < 0:
+            return
+        m = _EXPONENT.match(text, at)
+        rest = text[m.end() :].lstrip() if m else ""
+        if m is None or rest.startswith("**"):
+            raise ValueError(
+                f"unit {unit_text!r}: expected exponents that are plain numbers such as m^3 "
+                "(an exponent may not carry its own exponent)"
+            )
+        token = m.group(1).strip("() ").replace(" ", "")
+        num, _, den = token.partition("/")
+        size = abs(float(num)) / (float(den) if den else 1.0) if den != "0" else math.inf
+        if not size <= MAX_UNIT_EXPONENT:
+            raise ValueError(
+                f"unit {unit_text!r}: exponent {token} is beyond {MAX_UNIT_EXPONENT} in size"
+            )
+        pos = m.end()
+
+
 def dimension_name(dim: tuple[int, ...]) -> str:
     """A readable name for a dimension vector, e.g. ``(0, 1, -1, 0)`` -> ``'velocity'``."""
     key = tuple(round(d) for d in dim)
@@ -150,21 +281,30 @@ def parse_quantity(text: str | float | int) -> tuple[float, tuple[int, int, int,
     """
     if isinstance(text, bool):
         raise ValueError(f"expected a value with units, got {text!r}")
-    if isinstance(text, int | float):
-        return float(text), (0, 0, 0, 0), ""
+    if isinstance(text, int):
+        return checked_number(text), (0, 0, 0, 0), ""
+    if isinstance(text, float):
+        return _in_range(text, repr(text)), (0, 0, 0, 0), ""
     if not isinstance(text, str):
         raise ValueError(f"expected a value with units as a string, got {text!r}")
     s = text.strip()
     ureg = registry()
     m = re.match(r"^\s*([-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?|[-+]?inf|nan)\s*(.*)$", s, re.I)
     if not m:
-        raise ValueError(f"expected a number followed by units, got {text!r}")
+        raise ValueError(f"expected a number followed by units, got {_short(text)}")
+    if len(m.group(1)) > 40:
+        raise ValueError(f"expected a number of at most 40 characters, got {_short(text)}")
+    # nan and inf pass here (the caller says what kind of finite value it expected); finite
+    # values must lie in the safe range
     number = float(m.group(1))
+    if math.isfinite(number):
+        checked_number(number)
     unit_text = m.group(2).strip().replace("^", "**")
     if unit_text in ("", "%"):
         value = number / 100.0 if unit_text == "%" else number
-        return value, (0, 0, 0, 0), unit_text
+        return _in_range(value, text), (0, 0, 0, 0), unit_text
     written = m.group(2).strip()
+    check_unit_text(written)
     try:
         unit = ureg.Unit(unit_text)
     except Exception as exc:  # pint raises several kinds; all mean "not a unit"
@@ -172,7 +312,14 @@ def parse_quantity(text: str | float | int) -> tuple[float, tuple[int, int, int,
         raise ValueError(f"unknown unit {written!r} in {text!r}{hint}") from exc
     q = ureg.Quantity(number, unit)
     dims = q.dimensionality
-    vec = tuple(int(dims.get(b, 0)) for b in BASE_DIMENSIONS)
+    fractional = {k: v for k, v in dims.items() if abs(v - round(v)) > 1e-9}
+    if fractional:
+        name, power = next(iter(fractional.items()))
+        raise ValueError(
+            f"unit {written!r} in {text!r} has the fractional exponent {power:g} of "
+            f"{name.strip('[]')}; expected whole powers (m^3, s^-1)"
+        )
+    vec = tuple(round(dims.get(b, 0)) for b in BASE_DIMENSIONS)
     other = [k for k in dims if k not in BASE_DIMENSIONS]
     if other:
         hint = unit_hint(m.group(1), written)
@@ -181,7 +328,22 @@ def parse_quantity(text: str | float | int) -> tuple[float, tuple[int, int, int,
             f"time and temperature{hint}"
         )
     base = q.to_base_units()
-    return float(base.magnitude), vec, str(m.group(2).strip())  # type: ignore[return-value]
+    return _in_range(float(base.magnitude), text), vec, str(m.group(2).strip())  # type: ignore[return-value]
+
+
+def _in_range(si: float, text: str) -> float:
+    """A finite SI value checked against the safe range (nan and inf returned as they are)."""
+    if math.isfinite(si):
+        try:
+            checked_number(si)
+        except ValueError as exc:
+            raise ValueError(f"{_short(text)} in SI units: {exc}") from None
+    return si
+
+
+def _short(text: str) -> str:
+    """``repr`` of a text, cut to 60 characters."""
+    return repr(text if len(text) <= 60 else text[:57] + "...")
 
 
 def parse_ratio(text: str | float | int) -> float:
@@ -198,10 +360,14 @@ def parse_ratio(text: str | float | int) -> float:
     """
     if isinstance(text, bool):
         raise ValueError(f"expected a ratio like '1:50' or a number, got {text!r}")
-    if isinstance(text, int | float):
-        value = float(text)
+    if isinstance(text, int):
+        value = checked_number(text)
+    elif isinstance(text, float):
+        value = text
     elif isinstance(text, str):
         s = text.strip()
+        if len(s) > 60:
+            raise ValueError(f"expected a ratio like '1:50', got {_short(s)}")
         if ":" in s:
             a, _, b = s.partition(":")
             try:
@@ -221,7 +387,9 @@ def parse_ratio(text: str | float | int) -> float:
     else:
         raise ValueError(f"expected a ratio like '1:50' or a number, got {text!r}")
     if not math.isfinite(value) or value <= 0:
-        raise ValueError(f"expected a positive finite ratio, got {text!r}")
+        raise ValueError(f"expected a positive finite ratio, got {_short(str(text))}")
+    if not RATIO_MIN <= value <= RATIO_MAX:
+        raise ValueError(f"expected a ratio between 1:1e12 and 1e12:1, got {_short(str(text))}")
     return value
 
 

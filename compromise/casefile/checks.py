@@ -31,7 +31,14 @@ from compromise.casefile.model import (
 )
 from compromise.errors import CaseError, ExpressionError, FluidRangeError, UnknownFluidError
 from compromise.physics.scaling import BASIS, INDEX, default_scaling, named_scaling
-from compromise.units import dimension_name, parse_quantity, parse_ratio, si_unit
+from compromise.units import (
+    checked_number,
+    dimension_name,
+    number_text,
+    parse_quantity,
+    parse_ratio,
+    si_unit,
+)
 
 
 class Loader:
@@ -68,8 +75,15 @@ class Loader:
         if isinstance(value, bool) or not isinstance(value, int | float):
             self.error(key, f"expected {what}, got {show(value)}")
             return None
-        v = float(value)
-        if not math.isfinite(v) or v <= 0:
+        if isinstance(value, float) and not math.isfinite(value):
+            self.error(key, f"expected {what}, got {show(value)}")
+            return None
+        try:
+            v = checked_number(value)
+        except ValueError as exc:
+            self.error(key, f"{exc} ({what})")
+            return None
+        if v <= 0:
             self.error(key, f"expected {what}, got {show(value)}")
             return None
         return v
@@ -148,7 +162,9 @@ def join(prefix: str, key: str) -> str:
 
 def show(value: Any) -> str:
     if isinstance(value, str):
-        return repr(value)
+        return repr(value if len(value) <= 60 else value[:57] + "...")
+    if isinstance(value, int | float) and not isinstance(value, bool):
+        return number_text(value)
     if isinstance(value, dict):
         return "a table"
     if isinstance(value, list):
@@ -385,6 +401,8 @@ def check_model(L: Loader, data: Any, prototype_fluid: str) -> ModelChoices:
                 "model.distortion",
                 "expected values >= 1 (vertical ratio / horizontal ratio; 1 means undistorted)",
             )
+        elif d[1] > 1e12:
+            L.error("model.distortion", f"expected values up to 1e12, got {show(d[1])}")
     v = None
     if "velocity_ratio" in data:
         v = L.bounds(data["velocity_ratio"], "model.velocity_ratio", L.ratio)

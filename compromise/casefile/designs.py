@@ -10,13 +10,12 @@ into a full design with the case's defaults for whatever it leaves out.
 from __future__ import annotations
 
 import json
-import math
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from compromise.errors import CaseError
-from compromise.units import ZERO_CELSIUS, parse_quantity, parse_ratio
+from compromise.units import ZERO_CELSIUS, checked_number, parse_quantity, parse_ratio
 
 
 @dataclass(frozen=True)
@@ -134,13 +133,17 @@ def load_design_file(path: str | Path) -> DesignSpec:
 
     def number(name: str, *, positive: bool = True) -> float:
         v = design.get(name)
-        if isinstance(v, bool) or not isinstance(v, int | float) or not math.isfinite(v):
+        if isinstance(v, bool) or not isinstance(v, int | float):
             raise CaseError(f"expected a number, got {v!r}", file=shown, key=f"design.{name}")
-        if positive and v <= 0:
+        try:
+            out = checked_number(v)
+        except ValueError as exc:
+            raise CaseError(str(exc), file=shown, key=f"design.{name}") from None
+        if positive and out <= 0:
             raise CaseError(
                 f"expected a positive number, got {v!r}", file=shown, key=f"design.{name}"
             )
-        return float(v)
+        return out
 
     fluid = design.get("fluid")
     if not isinstance(fluid, str) or not fluid:

@@ -24,6 +24,7 @@ from compromise.casefile.checks import (
     check_quantity,
     show,
 )
+from compromise.casefile.instruments import check_instruments
 from compromise.casefile.model import (
     ATMOSPHERE,
     DISPLAY_UNITS,
@@ -35,6 +36,7 @@ from compromise.casefile.model import (
     Limit,
     Quantity,
 )
+from compromise.casefile.physics_checks import check_physics
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
 
@@ -74,6 +76,14 @@ def load_case(path: str | Path) -> Case:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise CaseErrors([CaseError(f"TOML syntax error: {exc}", file=shown)]) from None
+    except ValueError:  # an integer literal beyond Python's digit limit escapes TOMLDecodeError
+        raise CaseErrors(
+            [
+                CaseError(
+                    "an integer literal of more than 4300 digits; expected a number", file=shown
+                )
+            ]
+        ) from None
     return case_from_dict(data, path=shown, source_sha256=hashlib.sha256(raw).hexdigest())
 
 
@@ -123,6 +133,7 @@ def case_from_dict(
     L.keys(proto, PROTOTYPE_KEYS, "prototype")
     fluid_name = proto.get("fluid", "water")
     fluid = None
+    errors_before = len(L.errors)
     if not isinstance(fluid_name, str):
         L.error("prototype.fluid", f"expected a fluid name, got {show(fluid_name)}")
     else:
@@ -153,6 +164,7 @@ def case_from_dict(
             fluid.check(temperature, pressure)
         except FluidRangeError as exc:
             L.error("prototype.temperature", f"{fluid_name}: {exc}")
+    prototype_ok = fluid is not None and len(L.errors) == errors_before
 
     # quantities --------------------------------------------------------------------------
     quantities: dict[str, Quantity] = {}
@@ -256,9 +268,8 @@ def case_from_dict(
 
     # phenomena (checked with the rest, so every problem of the file is reported in one pass)
     phenomena = check_phenomena(L, data.get("phenomena", []), quantities)
-    if L.errors:
-        raise CaseErrors(L.errors)
-    return Case(
+    instruments = check_instruments(L, data.get("instruments", {}), quantities)
+    case = Case(
         phenomena=phenomena,
         path=path,
         title=title,
@@ -273,4 +284,35 @@ def case_from_dict(
         limits=tuple(limits),
         source_sha256=source_sha256 or canonical_sha256(data),
         display_units=display_units,
+        instruments=instruments,
     )
+    # what the solver would refuse (group values, fluid properties), in the same pass
+    check_physics(
+        L.error,
+        case,
+        prototype_ok=prototype_ok,
+        model_fluids=_model_fluid_indices(data.get("model", {}), model.fluids),
+    )
+    if L.errors:
+        raise CaseErrors(L.errors)
+    return case
+
+
+def _model_fluid_indices(model: Any, accepted: tuple[str, ...]) -> list[tuple[int, str]]:
+    """(index in ``model.fluids``, catalogue name) of every model fluid that was accepted."""
+    raw = model.get("fluids") if isinstance(model, dict) else None
+    if isinstance(raw, str):
+        raw = [raw]
+    if not isinstance(raw, list):
+        return list(enumerate(accepted))
+    out: list[tuple[int, str]] = []
+    for i, name in enumerate(raw):
+        if not isinstance(name, str):
+            continue
+        try:
+            canonical = get_fluid(name).name
+        except (UnknownFluidError, FluidRangeError):
+            continue
+        if canonical in accepted and all(c != canonical for _, c in out):
+            out.append((i, canonical))
+    return out

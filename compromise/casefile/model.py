@@ -31,6 +31,7 @@ TOP_KEYS = (
     "conditions",
     "phenomena",
     "display_units",
+    "instruments",
 )
 DISPLAY_UNITS = ("si", "us")
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
@@ -129,6 +130,33 @@ class Limit:
 
 
 @dataclass(frozen=True)
+class Instrument:
+    """A laboratory instrument and its resolution (``[instruments]``, ``--instrument``).
+
+    Attributes
+    ----------
+    name : str
+    resolution : float
+        Model-scale resolution [SI], or a share of the reading [-] when ``relative``.
+    relative : bool
+        Whether the resolution is a share of the reading (written in %).
+    dimension : tuple of int
+        (M, L, T, Theta) of an absolute resolution.
+    measures : str or None
+        The case quantity or kind it measures (None: from its name).
+    text : str
+        As written.
+    """
+
+    name: str
+    resolution: float
+    relative: bool
+    dimension: tuple[int, int, int, int]
+    measures: str | None
+    text: str
+
+
+@dataclass(frozen=True)
 class ModelChoices:
     """The designer's choices and their bounds (ratios model/prototype, SI)."""
 
@@ -164,6 +192,8 @@ class Case:
     source_sha256: str = ""
     #: how human-facing output shows dimensional values: "si" or "us" (US customary)
     display_units: str = "si"
+    #: the laboratory's instruments (``[instruments]``), for ``compromise resolution``
+    instruments: tuple[Instrument, ...] = ()
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import sys
 
-from compromise.cli import core, explore, review  # noqa: F401  (registers the commands)
+from compromise.cli import core, data, explore, report, review  # noqa: F401  (registers the commands)
 from compromise.cli.common import app
 
 __all__ = ["app", "main"]

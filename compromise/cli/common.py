@@ -4,11 +4,31 @@ from __future__ import annotations
 
 import json
 import math
+import re
+import sys
 from pathlib import Path
 from typing import Annotated, Any
 
+import click
 import typer
 from typer.core import TyperCommand, TyperGroup
+
+
+def _click_errors(name: str) -> tuple[type[BaseException], ...]:
+    """The exception class ``name`` of click and of the copy of click typer carries."""
+    found = [getattr(click.exceptions, name)]
+    try:
+        from typer._click import exceptions as vendored  # typer >= 0.20 carries its own click
+    except ImportError:  # pragma: no cover
+        return tuple(found)
+    extra = getattr(vendored, name, None)
+    return tuple(found + ([extra] if extra is not None and extra not in found else []))
+
+
+_NO_ARGS = _click_errors("NoArgsIsHelpError")
+_USAGE = _click_errors("UsageError")
+_CLICK = _click_errors("ClickException")
+_ABORT = (*_click_errors("Abort"), typer.Abort)
 
 
 def _as_flags(params: list[Any]) -> list[Any]:
@@ -27,10 +47,97 @@ class _Command(TyperCommand):
 
 
 class _Group(TyperGroup):
-    """The command group, with the same help for flags as :class:`_Command`."""
+    """The command group, with the same help for flags as :class:`_Command`.
+
+    It is also the last line of defence: a usage error (unknown option, bad option value) is
+    one ``error:`` line and exit status 2, and any exception no command turned into an error
+    message is one ``internal error`` line and exit status 3 (``--debug`` shows the
+    traceback), so a crash is never read as an answer (0) or as "infeasible" (1).
+    """
 
     def get_params(self, ctx: Any) -> list[Any]:
         return _as_flags(super().get_params(ctx))
+
+    def main(  # type: ignore[override]
+        self,
+        args: Any = None,
+        prog_name: str | None = None,
+        complete_var: str | None = None,
+        standalone_mode: bool = True,
+        **extra: Any,
+    ) -> Any:
+        if not standalone_mode:
+            return super().main(args, prog_name, complete_var, standalone_mode, **extra)
+        _STATE["debug"] = False
+        try:
+            rv = super().main(args, prog_name, complete_var, False, **extra)
+        except _NO_ARGS as exc:
+            exc.show()
+            sys.exit(exc.exit_code)
+        except _USAGE as exc:
+            hint = ""
+            if exc.ctx is not None:
+                hint = f" (see '{exc.ctx.command_path} --help')"
+            typer.echo(f"error: {one_line(exc.format_message())}{hint}", err=True)
+            sys.exit(2)
+        except _CLICK as exc:
+            typer.echo(f"error: {one_line(exc.format_message())}", err=True)
+            sys.exit(exc.exit_code)
+        except _ABORT:
+            typer.echo("error: aborted", err=True)
+            sys.exit(130)
+        except Exception as exc:  # the last line of defence: see the class docstring
+            _internal(exc)
+        sys.exit(rv if isinstance(rv, int) else 0)
+
+
+#: Set by ``--debug`` for the command being run.
+_STATE: dict[str, bool] = {"debug": False}
+
+
+def _internal(exc: BaseException) -> None:
+    """Report an unexpected exception in one line (the traceback with ``--debug``); exit 3."""
+    if _STATE["debug"]:
+        import traceback
+
+        traceback.print_exception(exc, file=sys.stderr)
+    text = str(exc) or type(exc).__name__
+    typer.echo(
+        f"error: internal error: {type(exc).__name__}: {one_line(text)}; rerun with --debug "
+        "for the traceback and report it with the case file",
+        err=True,
+    )
+    sys.exit(3)
+
+
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f\u2028\u2029]")
+_LONG_DIGITS = re.compile(r"(?<![\w.])([-+]?)(\d{16,})(?:\.\d*)?(?![\w.])")
+
+
+def _escape(match: re.Match[str]) -> str:
+    ch = match.group(0)
+    return {"\n": "\\n", "\r": "\\r", "\t": "\\t"}.get(
+        ch, f"\\x{ord(ch):02x}" if ord(ch) < 256 else f"\\u{ord(ch):04x}"
+    )
+
+
+def _short_digits(match: re.Match[str]) -> str:
+    sign, digits = match.group(1), match.group(2)
+    return f"{sign}{digits[0]}.{digits[1:3]}e+{len(digits) - 1}"
+
+
+def one_line(text: str) -> str:
+    r"""Text made safe for one terminal line: control characters (escape sequences, newlines)
+    escaped, integers of 16 digits or more in short scientific form.
+
+    Examples
+    --------
+    >>> one_line("key a" + chr(27) + "[31mb" + chr(10) + "c") == r"key a\x1b[31mb\nc"
+    True
+    >>> one_line("got 1" + "0" * 400)
+    'got 1.00e+400'
+    """
+    return _LONG_DIGITS.sub(_short_digits, _CONTROL.sub(_escape, text))
 
 
 app = typer.Typer(
@@ -62,8 +169,13 @@ def _main(
         bool,
         typer.Option("--version", callback=_version, is_eager=True, help="Print the version."),
     ] = False,
+    debug: Annotated[
+        bool,
+        typer.Option("--debug", help="Show the traceback of an internal error (exit status 3)."),
+    ] = False,
 ) -> None:
     """Choose the scales of a physical flow model within a laboratory's limits."""
+    _STATE["debug"] = debug
 
 
 def _clean(obj: Any) -> Any:
@@ -83,7 +195,7 @@ def _print_json(data: Any) -> None:
 
 def _fail(lines: list[str]) -> None:
     for line in lines:
-        typer.echo(f"error: {line}", err=True)
+        typer.echo(f"error: {one_line(line)}", err=True)
     raise typer.Exit(2)
 
 

@@ -408,6 +408,8 @@ def tolerance(
         text = within.strip()
         try:
             tol = float(text[:-1]) / 100 if text.endswith("%") else float(text)
+            if tol < 1e-6 and tol == tol and tol > -1e-6:
+                raise ValueError  # below 1 ppm: no friction factor is known that well
         except ValueError:
             raise CaseError(
                 f"expected a tolerance such as '5%', got {within!r}", key="--within"

@@ -56,6 +56,7 @@ def tradeoff(
         typer.Option(
             "--points",
             min=2,
+            max=10000,
             help="Epsilon values of the final sweep (points "
             "on the front, before duplicates are dropped).",
         ),
@@ -76,9 +77,11 @@ def tradeoff(
 
     def body() -> int:
         from compromise.explore.tradeoffs import trace_front
+        from compromise.outfiles import check_output_folder
         from compromise.presentation.explore_tables import format_front, write_front
         from compromise.review.provenance import stamped
 
+        check_output_folder(out or Path("out") / case.stem)
         front = trace_front(
             _load(case), _axes_list(between, more), points=points, lift=not keep_limits
         )
@@ -130,9 +133,11 @@ def map_(
 
     def body() -> int:
         from compromise.explore.designmap import design_map
+        from compromise.outfiles import check_output_folder
         from compromise.presentation.explore_tables import format_map, write_map
         from compromise.review.provenance import stamped
 
+        check_output_folder(out or Path("out") / case.stem)
         names = _axes_list(axes, more)
         dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
         paths = write_map(dmap, out or Path("out") / case.stem)
@@ -154,15 +159,23 @@ def sensitivity(
         float,
         typer.Option(
             "--spread",
+            min=1.0,
+            max=1e6,
             help="Each weight is multiplied by a factor drawn "
-            "log-uniformly between 1/SPREAD and SPREAD.",
+            "log-uniformly between 1/SPREAD and SPREAD (1 to 1e6).",
         ),
     ] = 10.0,
     samples: Annotated[
-        int, typer.Option("--samples", min=1, help="Number of weight samples.")
+        int, typer.Option("--samples", min=1, max=1_000_000, help="Number of weight samples.")
     ] = 2000,
     seed: Annotated[
-        int, typer.Option("--seed", help="Seed of the random generator (same seed, same answer).")
+        int,
+        typer.Option(
+            "--seed",
+            min=0,
+            max=2**63 - 1,
+            help="Seed of the random generator (same seed, same answer).",
+        ),
     ] = 0,
     out: OutOpt = None,
     json_out: JsonOpt = False,
@@ -171,9 +184,11 @@ def sensitivity(
 
     def body() -> int:
         from compromise.explore.sensitivity import weight_sensitivity
+        from compromise.outfiles import check_output_folder
         from compromise.presentation.explore_tables import format_sensitivity, write_sensitivity
         from compromise.review.provenance import stamped
 
+        check_output_folder(out or Path("out") / case.stem)
         sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
         paths = write_sensitivity(sens, out or Path("out") / case.stem)
         if json_out:

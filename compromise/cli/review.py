@@ -103,8 +103,11 @@ def evaluate(
             except ValueError as exc:
                 raise CaseError(str(exc), key=option) from None
 
-        if distortion is not None and not distortion > 0:
-            raise CaseError(f"expected a positive distortion, got {distortion}", key="--distortion")
+        if distortion is not None and not (distortion > 0 and 1e-12 <= distortion <= 1e12):
+            raise CaseError(
+                f"expected a positive distortion between 1e-12 and 1e12, got {distortion:.3g}",
+                key="--distortion",
+            )
         spec = DesignSpec(
             ratio=ratio_of(ratio, "--ratio"),
             vertical=ratio_of(vertical, "--vertical") if vertical else None,

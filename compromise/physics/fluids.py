@@ -387,7 +387,12 @@ class CoolPropFluid(Fluid):
         import CoolProp.CoolProp as CP
 
         state = self._state(kind)
-        state.update(getattr(CP, inputs), a, b)
+        try:
+            state.update(getattr(CP, inputs), a, b)
+        except ValueError as exc:  # CoolProp refuses a state (a pressure far outside its range)
+            raise FluidRangeError(
+                f"{self.name}: no state at {a:.4g} and {b:.4g} ({inputs}): {exc}"
+            ) from None
         return state
 
     def _evaluate(self, temperature: float, pressure: float) -> tuple[float, ...]:

@@ -15,6 +15,7 @@ import textwrap
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+from compromise.outfiles import atomic_output, check_output_folder
 from compromise.presentation.tables import fmt, table
 from compromise.review.wording import CAUTION
 from compromise.units import format_ratio
@@ -40,7 +41,7 @@ def _short(design: Any) -> str:
 def write_front(front: Front, folder: str | Path) -> list[Path]:
     """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
     folder = Path(folder)
-    folder.mkdir(parents=True, exist_ok=True)
+    check_output_folder(folder)
     stem = folder / ("tradeoff_" + "_".join(front.names))
     path = stem.with_suffix(".csv")
     cols = [f"{a.name} [{a.unit}]" for a in front.axes]
@@ -55,7 +56,7 @@ def write_front(front: Front, folder: str | Path) -> list[Path]:
         "velocity_ratio",
         "distortion",
     ]
-    with path.open("w", newline="", encoding="utf-8") as fh:
+    with atomic_output(path) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(head)
         rows = [("knee" if i == front.knee else "front", pt) for i, pt in enumerate(front.points)]
@@ -157,11 +158,11 @@ def format_front(front: Front, rows: int = 12) -> str:
 def write_map(dmap: DesignMap, folder: str | Path) -> list[Path]:
     """``map_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
     folder = Path(folder)
-    folder.mkdir(parents=True, exist_ok=True)
+    check_output_folder(folder)
     stem = folder / f"map_{dmap.axes[0]}_{dmap.axes[1]}"
     path = stem.with_suffix(".csv")
     X, Y = dmap.grid(0), dmap.grid(1)
-    with path.open("w", newline="", encoding="utf-8") as fh:
+    with atomic_output(path) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(
             [
@@ -220,10 +221,10 @@ def format_map(dmap: DesignMap) -> str:
 def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
     """``sensitivity.csv`` (candidates), ``sensitivity_samples.csv`` and the bar chart."""
     folder = Path(folder)
-    folder.mkdir(parents=True, exist_ok=True)
+    check_output_folder(folder)
     stem = folder / "sensitivity"
     path = stem.with_suffix(".csv")
-    with path.open("w", newline="", encoding="utf-8") as fh:
+    with atomic_output(path) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(
             [
@@ -251,7 +252,7 @@ def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
                 ]
             )
     samples = folder / "sensitivity_samples.csv"
-    with samples.open("w", newline="", encoding="utf-8") as fh:
+    with atomic_output(samples) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(
             [

@@ -125,11 +125,16 @@ def save_figure(fig: Figure, stem: str | Path, case: Case | None = None) -> list
     """
     import matplotlib
 
+    from compromise.outfiles import atomic_output, check_output_folder
+
     stem = Path(stem)
-    stem.parent.mkdir(parents=True, exist_ok=True)
+    check_output_folder(stem.parent)
     out = [stem.with_suffix(".png"), stem.with_suffix(".svg")]
     png, svg = figure_metadata(case)
+    # each file is written beside its target and renamed into place (compromise.outfiles)
     with matplotlib.rc_context({"svg.hashsalt": "compromise", "svg.fonttype": "none"}):
-        fig.savefig(out[0], dpi=150, metadata=png)
-        fig.savefig(out[1], metadata=svg)
+        with atomic_output(out[0], binary=True) as fh:
+            fig.savefig(fh, format="png", dpi=150, metadata=png)
+        with atomic_output(out[1], binary=True) as fh:
+            fig.savefig(fh, format="svg", metadata=svg)
     return out

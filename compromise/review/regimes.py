@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from compromise.casefile.model import Case
+from compromise.errors import CompromiseError
 from compromise.physics.friction import friction_factor
 from compromise.physics.thresholds import Threshold, conventional_names, thresholds_for
 from compromise.review.context import (
@@ -160,9 +161,22 @@ def _wavenumber(period: float, depth: float, g: float, sigma: float, rho: float)
     omega = 2 * math.pi / period
 
     def f(k: float) -> float:
-        return (g * k + sigma / rho * k**3) * math.tanh(k * depth) - omega**2
+        return (g * k + sigma / rho * (k * k * k)) * math.tanh(
+            k * depth
+        ) - omega**2  # inf, not OverflowError
 
-    return float(brentq(f, 1e-9, 1e7, xtol=1e-14, rtol=1e-13))
+    # the bracket widens for extreme (but accepted) depths and periods; f rises with k
+    lo, hi = 1e-9, 1e7
+    while f(hi) < 0 and hi < 1e150:
+        hi *= 1e8
+    while f(lo) > 0 and lo > 1e-150:
+        lo *= 1e-8
+    if not f(lo) <= 0 <= f(hi):
+        raise CompromiseError(
+            f"no wavenumber for a wave period of {period:.3g} s in a depth of {depth:.3g} m "
+            "(linear dispersion has no root in 1e-150..1e150 1/m)"
+        )
+    return float(brentq(f, lo, hi, xtol=1e-14, rtol=1e-13))
 
 
 def regimes(case: Case, evaluation: Evaluation) -> tuple[Regime, ...]:

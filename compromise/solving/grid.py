@@ -32,6 +32,14 @@ REGULARISATION = 1e-10  # relative weight of the tie-break toward the largest, l
 # the grid engine
 
 
+def _weight_scale(W: np.ndarray) -> float:
+    """1, or the power of two nearest the largest weight when it lies outside 2^-20..2^20."""
+    top = float(np.max(W)) if W.size else 1.0
+    if not math.isfinite(top) or top <= 0 or 2.0**-20 <= top <= 2.0**20:
+        return 1.0
+    return math.ldexp(1.0, math.frexp(top)[1] - 1)
+
+
 class Engine:
     """Solves the convex subproblems of a problem for batches of fluid states.
 
@@ -45,6 +53,12 @@ class Engine:
     def __init__(self, problem: Problem, extra_E: np.ndarray | None = None) -> None:
         self.problem = problem
         A, W = problem.A, problem.W
+        #: Weights are divided by a power of two that brings the largest near 1 when they are
+        #: extreme, so squares and sums of extreme (legal) weights cannot overflow; a power of
+        #: two is exact, and ordinary weights (within 2^-20..2^20) are left as they are.
+        self.weight_scale = _weight_scale(W)
+        W = W / self.weight_scale
+        self.W = W
         H = 2.0 * (A.T * W) @ A
         m = problem.case.model
         scale = max(1.0, float(np.trace(H)) / 3.0)
@@ -65,8 +79,8 @@ class Engine:
         pr = self.problem
         p = np.atleast_2d(p)
         Bp = p @ pr.B.T  # (N, k)
-        f = 2.0 * (Bp * pr.W) @ pr.A - 2.0 * self.eps * self.y0
-        const = np.sum(pr.W * Bp**2, axis=1) + self.eps * float(self.y0 @ self.y0)
+        f = 2.0 * (Bp * self.W) @ pr.A - 2.0 * self.eps * self.y0
+        const = np.sum(self.W * Bp**2, axis=1) + self.eps * float(self.y0 @ self.y0)
         h, e = pr.rhs(p)
         if h_shift is not None:
             h = h + h_shift

@@ -71,11 +71,11 @@ class FullObjective:
     def group_values(self, y: np.ndarray, p: np.ndarray) -> list[list[float]]:
         """Model values of the nonlinear groups, per condition."""
         out = []
-        props = {n: self.proto_props[n] * math.exp(p[i]) for i, n in enumerate(PROPERTY_NAMES)}
+        props = {n: self.proto_props[n] * _exp(p[i]) for i, n in enumerate(PROPERTY_NAMES)}
         for vals in self.values:
             env = dict(props)
             for n, s in self.scalings.items():
-                env[n] = vals[n] * math.exp(float(s[:N_DECISION] @ y + s[N_DECISION:] @ p))
+                env[n] = vals[n] * _exp(float(s[:N_DECISION] @ y + s[N_DECISION:] @ p))
             out.append([float(ex.evaluate(g.expression, env)) for g in self.groups])
         return out
 
@@ -91,7 +91,7 @@ class FullObjective:
             for g, mv, pv in zip(self.groups, model, proto, strict=True):
                 if g.exact or g.weight == 0:
                     continue
-                if mv <= 0 or pv <= 0:
+                if not (mv > 0 and pv > 0 and math.isfinite(mv)):  # nan or out of the domain
                     return math.inf
                 total += w * g.weight * math.log(mv / pv) ** 2
         return total
@@ -101,7 +101,7 @@ class FullObjective:
         ineq, eq = [], []
         for model, proto in zip(self.group_values(y, p), self.proto_group, strict=True):
             for g, mv, pv in zip(self.groups, model, proto, strict=True):
-                lm = math.log(mv) if mv > 0 else -1e3
+                lm = math.log(mv) if mv > 0 and math.isfinite(mv) else -1e3
                 if g.min is not None:
                     ineq.append(lm - math.log(g.min))
                 if g.max is not None:
@@ -109,6 +109,12 @@ class FullObjective:
                 if g.exact:
                     eq.append(lm - (math.log(pv) if pv > 0 else 0.0))
         return np.array(ineq), np.array(eq)
+
+
+def _exp(x: float) -> float:
+    """``exp`` that gives ``inf`` (not ``OverflowError``) far outside the design space, and
+    ``nan`` for ``nan``; the objective then treats the point as out of the domain."""
+    return math.exp(x) if x < 700.0 else math.inf
 
 
 def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[float, np.ndarray]:

@@ -18,6 +18,7 @@ from dataclasses import replace
 import numpy as np
 
 from compromise.casefile.model import Case
+from compromise.errors import CompromiseError
 from compromise.solving.design import evaluate_design
 from compromise.solving.diagnose import diagnose, relaxed_bound
 from compromise.solving.grid import (
@@ -90,6 +91,11 @@ def find_optimum(
         )
         return Solution(case, "infeasible", math.inf, None, None, {}, alts, conflict)
     best = pick_state(feasible, case)
+    if not math.isfinite(best.objective):  # never shown as a result (issue 16)
+        raise CompromiseError(
+            f"{case.path}: the weighted mismatch of the best design is {best.objective}; "
+            "check the groups' expressions and weights"
+        )
     design = design_of(best)
     evaluation = evaluate_design(case, design)
     binding = _binding_costs(problem, engine, states, best, n_temperatures) if alternatives else {}

@@ -87,6 +87,8 @@ def _phase1_highs(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) ->
     from scipy.optimize import linprog
 
     m, q, n = G.shape[0], E.shape[0], G.shape[1]
+    if not (np.all(np.isfinite(h)) and np.all(np.isfinite(e))):
+        return math.inf  # HiGHS refuses nan and inf right-hand sides; no finite violation
     c = np.r_[np.zeros(n), np.ones(m + 2 * q)]
     A_ub = np.hstack([G, -np.eye(m), np.zeros((m, 2 * q))]) if m else None
     A_eq = np.hstack([E, np.zeros((q, m)), -np.eye(q), np.eye(q)]) if q else None

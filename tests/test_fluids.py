@@ -105,7 +105,7 @@ def test_water_surface_tension_matches_iapws_package() -> None:
 def test_glycerol_water_viscosity_cheng2008_formula(fraction: float, mu_mpa: float) -> None:
     # Cheng (2008), Ind. Eng. Chem. Res. 47, 3285, eqs. 21-22 (constants as seen in a public
     # implementation of the paper) evaluated by hand at 20 degC and rounded to four figures:
-    # tolerance half a unit of the last digit. Guards the transcription of the formula; the
+    # tolerance half a unit of the last digit. Guards our coding of the formula; the
     # published data it fits are checked in the next test.
     name = f"glycerol-water {fraction * 100:g}%"
     mu = get_fluid(name).properties(K + 20.0).dynamic_viscosity

@@ -22,13 +22,14 @@ import pytest
 from numpy.testing import assert_allclose
 
 from compromise.casefile.designs import DesignSpec, parse_design_spec
-from compromise.casefile.load import case_from_dict, load_case
+from compromise.casefile.load import load_case
 from compromise.review.comparison import compare
 from compromise.review.proposal import design_from_spec, evaluate
 from compromise.solving.design import Design
 from compromise.solving.optimum import find_optimum
 
 CASES = Path(__file__).resolve().parents[1] / "cases"
+DATA = Path(__file__).resolve().parent / "data"
 FT = 0.3048  # m, exactly (international foot, 1959)
 BUNDLED = sorted(p.stem for p in CASES.glob("*.toml"))
 
@@ -127,29 +128,7 @@ def test_compare_marks_the_best_of_each_row(river) -> None:
 
 @pytest.fixture(scope="module")
 def manual():
-    return case_from_dict(
-        {
-            "title": "half-mile reach in a 60 ft hall",
-            "prototype": {
-                "fluid": "water",
-                "temperature": "15 degC",
-                "quantities": {
-                    "reach": "0.5 mile",
-                    "depth": {"value": "20 ft", "axis": "vertical"},
-                    "velocity": "4 ft/s",
-                },
-            },
-            "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
-            "model": {
-                "horizontal_ratio": {"min": "1:1000", "max": "1:1"},
-                "distortion": 1,
-                "fluids": ["water"],
-                "temperature": "15 degC",
-            },
-            "limits": {"reach": {"max": "60 ft"}},
-        },
-        path="manual_example.toml",
-    )
+    return load_case(DATA / "manual_p576.toml")
 
 
 def test_manual_p576_proposal_gives_the_printed_depth(manual) -> None:

@@ -21,43 +21,23 @@ ch. 14, from memory), here with the largest hall and the pump both limiting.
 from __future__ import annotations
 
 import math
+from pathlib import Path
 
 import pytest
 from numpy.testing import assert_allclose
 
-from compromise.casefile.load import case_from_dict
+from compromise.casefile.load import case_from_dict, load_case
 from compromise.physics.fluids import get_fluid
 from compromise.review.answer import solve
 from compromise.solving.scales import scale_table
 
+DATA = Path(__file__).resolve().parent / "data"
 FT = 0.3048
 
 
 @pytest.fixture(scope="module")
 def manual_example():
-    case = case_from_dict(
-        {
-            "title": "half-mile reach in a 60 ft hall",
-            "prototype": {
-                "fluid": "water",
-                "temperature": "15 degC",
-                "quantities": {
-                    "reach": "0.5 mile",
-                    "depth": {"value": "20 ft", "axis": "vertical"},
-                    "velocity": "4 ft/s",
-                },
-            },
-            "groups": {"froude": {"exact": True}, "reynolds": {"weight": 1}},
-            "model": {
-                "horizontal_ratio": {"min": "1:1000", "max": "1:1"},
-                "distortion": 1,
-                "fluids": ["water"],
-                "temperature": "15 degC",
-            },
-            "limits": {"reach": {"max": "60 ft"}},
-        },
-        path="manual_example.toml",
-    )
+    case = load_case(DATA / "manual_p576.toml")
     return case, solve(case)
 
 

@@ -9,20 +9,27 @@ import sys
 from pathlib import Path
 from typing import Annotated, Any
 
-import click
 import typer
 from typer.core import TyperCommand, TyperGroup
 
 
 def _click_errors(name: str) -> tuple[type[BaseException], ...]:
-    """The exception class ``name`` of click and of the copy of click typer carries."""
-    found = [getattr(click.exceptions, name)]
-    try:
-        from typer._click import exceptions as vendored  # typer >= 0.20 carries its own click
-    except ImportError:  # pragma: no cover
-        return tuple(found)
-    extra = getattr(vendored, name, None)
-    return tuple(found + ([extra] if extra is not None and extra not in found else []))
+    """The exception class ``name`` of click and of the copy of click typer carries.
+
+    Recent typer carries its own click (and does not install click); older typer uses click
+    itself. Either, or both, may be present.
+    """
+    found: list[type[BaseException]] = []
+    for module in ("typer._click.exceptions", "click.exceptions"):
+        try:
+            import importlib
+
+            cls = getattr(importlib.import_module(module), name, None)
+        except ImportError:
+            continue
+        if cls is not None and cls not in found:
+            found.append(cls)
+    return tuple(found)
 
 
 _NO_ARGS = _click_errors("NoArgsIsHelpError")

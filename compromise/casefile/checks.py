@@ -260,6 +260,9 @@ def check_groups(L: Loader, data: Any, quantities: Mapping[str, Quantity]) -> di
     data = L.table(data, "groups")
     dims = {n: q.dimension for n, q in quantities.items()}
     dims.update({n: tuple(d) for n, d in ex.PROPERTY_DIMENSIONS.items()})
+    from compromise.physics.groups import STATE_DIMENSIONS
+
+    dims.update(STATE_DIMENSIONS)
     for name, entry in data.items():
         key = f"groups.{name}"
         entry = L.table(entry, key)

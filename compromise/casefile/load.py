@@ -39,6 +39,7 @@ from compromise.casefile.model import (
 from compromise.casefile.physics_checks import check_physics
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
+from compromise.physics.groups import STATE_DIMENSIONS
 
 
 def load_case(path: str | Path) -> Case:
@@ -177,7 +178,13 @@ def case_from_dict(
             L.error(key, "expected a name of letters, digits and underscores")
             L.rejected.add(name)
             continue
-        if name in ex.PROPERTY_NAMES or name == "L" or name in ex.CONSTANTS or name in ex.FUNCTIONS:
+        if (
+            name in ex.PROPERTY_NAMES
+            or name in STATE_DIMENSIONS
+            or name == "L"
+            or name in ex.CONSTANTS
+            or name in ex.FUNCTIONS
+        ):
             L.error(
                 key,
                 f"'{name}' is reserved (fluid property, characteristic length, constant "

@@ -28,6 +28,7 @@ PROPERTY_WORDS: dict[str, str] = {
     "nu": "kinematic viscosity (nu)",
     "sigma": "surface tension (sigma)",
     "c": "speed of sound (c)",
+    "p_vapour": "vapour pressure (p_vapour)",
 }
 
 _ATTRIBUTES = {
@@ -36,6 +37,7 @@ _ATTRIBUTES = {
     "nu": "kinematic_viscosity",
     "sigma": "surface_tension",
     "c": "speed_of_sound",
+    "p_vapour": "vapour_pressure",
 }
 
 
@@ -46,6 +48,7 @@ def _property_values(props: object) -> dict[str, float]:
         v = getattr(props, attr, None)
         out[name] = math.nan if v is None else float(v)
     out["g"] = 9.80665
+    out["p_ambient"] = float(getattr(props, "pressure", math.nan))
     return out
 
 
@@ -56,7 +59,7 @@ def group_properties(case: Case, group: Group) -> set[str]:
 
     out: set[str] = set()
     for n in ex.names(group.expression):
-        if n in PROPERTY_NAMES:
+        if n in PROPERTY_NAMES or n in PROPERTY_WORDS:
             out.add(n)
         elif n in case.quantities:
             s = case.quantities[n].scaling[N_DECISION:]

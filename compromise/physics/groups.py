@@ -47,6 +47,15 @@ CONVENTIONAL_DIMENSIONS: dict[str, tuple[int, int, int, int]] = {
 }
 """Dimension vectors (M, L, T, Theta) of the names the built-in groups use."""
 
+STATE_DIMENSIONS: dict[str, tuple[int, int, int, int]] = {
+    "p_ambient": (1, -1, -2, 0),  # ambient (facility) pressure of the fluid state [Pa]
+    "p_vapour": (1, -1, -2, 0),  # vapour pressure of the fluid at its temperature [Pa]
+}
+"""Names of the fluid *state* (not of a quantity): defined in every evaluation environment,
+from the state's pressure and the catalogue's vapour pressure at its temperature. In the model
+``p_ambient`` is the facility's pressure, a decision when ``[model] pressure`` is a range."""
+CONVENTIONAL_DIMENSIONS.update(STATE_DIMENSIONS)
+
 _WHITE = (
     "White, F. M. (2011). Fluid Mechanics, 7th ed., McGraw-Hill, ch. 5, dimensional analysis "
     "and similarity (from memory)."
@@ -247,6 +256,21 @@ BUILTIN_GROUPS: dict[str, GroupDefinition] = {
                 "Transactions of the American Society of Civil Engineers 102, 463-543 "
                 "(from memory).",
                 _GARCIA,
+            ),
+        ),
+        GroupDefinition(
+            name="cavitation",
+            symbol="sigma_c",
+            expression="(p_ambient + rho * g * L - p_vapour) / (0.5 * rho * velocity**2)",
+            forces="pressure above vapour pressure / dynamic pressure",
+            meaning="The cavitation index at a point L below the free surface (or of head "
+            "above it): a Froude model at atmospheric pressure has too high a value and does "
+            "not cavitate where the prototype does; a depressurised facility lowers p_ambient.",
+            references=(
+                "Falvey, H. T. (1990). Cavitation in Chutes and Spillways. US Bureau of "
+                "Reclamation, Engineering Monograph 42, ch. 1, cavitation index (from memory).",
+                "Knapp, R. T., Daily, J. W., Hammitt, F. G. (1970). Cavitation. McGraw-Hill "
+                "(from memory).",
             ),
         ),
         GroupDefinition(

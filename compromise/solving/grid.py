@@ -171,6 +171,9 @@ class FluidStates:
         )
         self.used = np.array([n in used for n in PROPERTY_NAMES])
         self.gas = self.fluid.phase == "gas"
+        #: whether the pressure is searched: a gas's properties depend on it; a liquid's ambient
+        #: pressure matters where a group names it (the cavitation index)
+        self.pressure_searched = self.gas or "p_ambient" in used
         self._exact: dict[tuple[float, float], np.ndarray] = {}
         self._grid_p: dict[tuple[bytes, float], np.ndarray] = {}
         m = case.model
@@ -191,7 +194,11 @@ class FluidStates:
             )
 
     def _p(self, T: np.ndarray, P: float) -> np.ndarray:
-        tab = self.fluid.table(P)(np.asarray(T, dtype=float))
+        # a liquid's properties hardly depend on pressure (water: ~5e-10 /Pa); its splines are
+        # built once, at the lowest model pressure, the source models are asked at the state
+        tab = self.fluid.table(P if self.gas else self.case.model.pressure[0])(
+            np.asarray(T, dtype=float)
+        )
         logs = np.column_stack(
             [
                 np.log(tab[k]) if k != "g" else np.zeros(len(T))
@@ -233,9 +240,18 @@ class FluidStates:
         return p
 
     def pressures(self) -> np.ndarray:
-        """The pressure grid [Pa] (one value for a liquid)."""
+        """The pressure grid [Pa] (one value for a liquid whose pressure no group names)."""
         lo, hi = self.case.model.pressure
-        return grid_points(lo, hi, N_PRESSURES, log=True) if self.gas else np.array([lo])
+        return (
+            grid_points(lo, hi, N_PRESSURES, log=True)
+            if self.pressure_searched
+            else np.array([lo])
+        )
+
+    def state_environment(self, T: float, P: float) -> dict[str, float]:
+        """``p_ambient`` and ``p_vapour`` [Pa] of the model fluid at (T, P), source models."""
+        vp = self.fluid.properties(T, P).vapour_pressure
+        return {"p_ambient": float(P), "p_vapour": math.nan if vp is None else float(vp)}
 
 
 # --------------------------------------------------------------------------------------------

@@ -68,10 +68,14 @@ class FullObjective:
         ]
         self.scalings = {n: q.scaling for n, q in case.quantities.items()}
 
-    def group_values(self, y: np.ndarray, p: np.ndarray) -> list[list[float]]:
-        """Model values of the nonlinear groups, per condition."""
+    def group_values(
+        self, y: np.ndarray, p: np.ndarray, state: dict[str, float] | None = None
+    ) -> list[list[float]]:
+        """Model values of the nonlinear groups, per condition; ``state`` gives the model
+        fluid's ``p_ambient`` and ``p_vapour`` (:meth:`FluidStates.state_environment`)."""
         out = []
         props = {n: self.proto_props[n] * _exp(p[i]) for i, n in enumerate(PROPERTY_NAMES)}
+        props.update(state or {})
         for vals in self.values:
             env = dict(props)
             for n, s in self.scalings.items():
@@ -79,13 +83,15 @@ class FullObjective:
             out.append([float(ex.evaluate(g.expression, env)) for g in self.groups])
         return out
 
-    def __call__(self, y: np.ndarray, p: np.ndarray) -> float:
+    def __call__(
+        self, y: np.ndarray, p: np.ndarray, state: dict[str, float] | None = None
+    ) -> float:
         """Full objective: convex part plus the nonlinear groups' weighted squared mismatches."""
         pr = self.problem
         r = pr.A @ y + pr.B @ p
         total = float(np.sum(pr.W * r**2))
         for c, (model, proto) in enumerate(
-            zip(self.group_values(y, p), self.proto_group, strict=True)
+            zip(self.group_values(y, p, state), self.proto_group, strict=True)
         ):
             w = self.case.conditions[c].weight
             for g, mv, pv in zip(self.groups, model, proto, strict=True):
@@ -96,10 +102,12 @@ class FullObjective:
                 total += w * g.weight * math.log(mv / pv) ** 2
         return total
 
-    def constraints(self, y: np.ndarray, p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    def constraints(
+        self, y: np.ndarray, p: np.ndarray, state: dict[str, float] | None = None
+    ) -> tuple[np.ndarray, np.ndarray]:
         """(inequalities >= 0, equalities = 0) of the nonlinear groups, in log space."""
         ineq, eq = [], []
-        for model, proto in zip(self.group_values(y, p), self.proto_group, strict=True):
+        for model, proto in zip(self.group_values(y, p, state), self.proto_group, strict=True):
             for g, mv, pv in zip(self.groups, model, proto, strict=True):
                 lm = math.log(mv) if mv > 0 and math.isfinite(mv) else -1e3
                 if g.min is not None:
@@ -122,7 +130,7 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
     from scipy.optimize import minimize
 
     fs, pr = obj.fs, obj.problem
-    gas = fs.gas and fs.pressures().size > 1
+    gas = fs.pressures().size > 1  # the pressure is searched (a gas, or a liquid's tank)
     t_lo, t_hi = fs.t_range
     tscale = max(t_hi - t_lo, 1.0)
 
@@ -134,9 +142,12 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
     def p_of(t: float, lp: float) -> np.ndarray:
         return fs.p(np.array([t]), math.exp(lp))[0]
 
+    def state_of(t: float, lp: float) -> dict[str, float]:
+        return fs.state_environment(t, math.exp(lp))
+
     def f(u: np.ndarray) -> float:
         y, t, lp = unpack(u)
-        v = obj(y, p_of(t, lp))
+        v = obj(y, p_of(t, lp), state_of(t, lp))
         return v if math.isfinite(v) else 1e6
 
     def g_ineq(u: np.ndarray) -> np.ndarray:
@@ -144,14 +155,14 @@ def _local(obj: FullObjective, y0: np.ndarray, t0: float, lp0: float) -> tuple[f
         p = p_of(t, lp)
         h, _ = pr.rhs(p)
         lin = h + obj.h_shift - pr.G @ y
-        nl, _ = obj.constraints(y, p)
+        nl, _ = obj.constraints(y, p, state_of(t, lp))
         return np.r_[lin, nl]
 
     def g_eq(u: np.ndarray) -> np.ndarray:
         y, t, lp = unpack(u)
         p = p_of(t, lp)
         _, e = pr.rhs(p)
-        _, nl = obj.constraints(y, p)
+        _, nl = obj.constraints(y, p, state_of(t, lp))
         fixed = [y[0] - obj.fix_x] if obj.fix_x is not None else []
         return np.r_[pr.E @ y - e, nl, fixed]
 
@@ -191,7 +202,10 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
         extra = None if obj.fix_x is None else np.array([obj.fix_x])
         batch, _ = engine.solve(p_all, obj.h_shift, extra)  # type: ignore[attr-defined]
         for k in np.flatnonzero(batch.feasible):
-            starts.append((obj(batch.y[k], p_all[k]), batch.y[k], float(T[k]), math.log(P)))
+            state = fs.state_environment(float(T[k]), float(P))
+            starts.append(
+                (obj(batch.y[k], p_all[k], state), batch.y[k], float(T[k]), math.log(P))
+            )
     if not starts:
         return None
     starts.sort(key=lambda s: s[0])
@@ -204,7 +218,7 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
         return None
     val, u = best
     t = t_lo + u[3] * max(t_hi - t_lo, 1.0) if t_hi > t_lo else t_lo
-    P = math.exp(u[4]) if fs.gas and fs.pressures().size > 1 else float(fs.pressures()[0])
+    P = math.exp(u[4]) if fs.pressures().size > 1 else float(fs.pressures()[0])
     return State(fs.name, float(t), float(P), u[:3].copy(), float(val))
 
 

@@ -29,6 +29,9 @@ from compromise.physics.scaling import BASIS, INDEX, N_DECISION, PROPERTY_BASIS
 
 #: Names of the fluid-property log-ratio vector ``p``.
 PROPERTY_NAMES: tuple[str, ...] = PROPERTY_BASIS
+#: Names of the fluid state (pressure, vapour pressure): a group that names one is solved by the
+#: nonlinear fallback, with the pressure of a liquid searched when ``[model] pressure`` is a range.
+STATE_NAMES: tuple[str, ...] = ("p_ambient", "p_vapour")
 
 
 @dataclass(frozen=True)
@@ -138,6 +141,9 @@ def property_environment(props: object) -> dict[str, float]:
         "sigma": get("surface_tension"),
         "c": get("speed_of_sound"),
         "g": 9.80665,
+        # the state's pressure and the vapour pressure at its temperature (cavitation index)
+        "p_ambient": get("pressure"),
+        "p_vapour": get("vapour_pressure"),
     }
 
 
@@ -194,10 +200,10 @@ def build_problem(case: Case) -> Problem:
         rows.append(row)
 
     for name, g in case.groups.items():
-        if g.power is None:
+        if g.power is None or ex.names(g.expression) & set(STATE_NAMES):
             nonlinear.append(name)
             for n in ex.names(g.expression):
-                if n in PROPERTY_NAMES:
+                if n in PROPERTY_NAMES or n in STATE_NAMES:
                     used.add(n)
                 elif n in case.quantities:
                     sq = case.quantities[n].scaling[nd:]

@@ -24,6 +24,7 @@ from compromise.casefile.checks import (
     check_quantity,
     show,
 )
+from compromise.casefile.facility import check_facility, check_facility_needs, facility_bounds
 from compromise.casefile.instruments import check_instruments
 from compromise.casefile.model import (
     ATMOSPHERE,
@@ -276,6 +277,9 @@ def case_from_dict(
     # phenomena (checked with the rest, so every problem of the file is reported in one pass)
     phenomena = check_phenomena(L, data.get("phenomena", []), quantities)
     instruments = check_instruments(L, data.get("instruments", {}), quantities)
+    facility = check_facility(L, data.get("facility"))
+    check_facility_needs(L, facility, phenomena)
+    groups = {**groups, **facility_bounds(facility, phenomena)}
     case = Case(
         phenomena=phenomena,
         path=path,
@@ -292,6 +296,7 @@ def case_from_dict(
         source_sha256=source_sha256 or canonical_sha256(data),
         display_units=display_units,
         instruments=instruments,
+        facility=facility,
     )
     # what the solver would refuse (group values, fluid properties), in the same pass
     check_physics(

@@ -32,6 +32,7 @@ TOP_KEYS = (
     "phenomena",
     "display_units",
     "instruments",
+    "facility",
 )
 DISPLAY_UNITS = ("si", "us")
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
@@ -47,6 +48,7 @@ MODEL_KEYS = (
     "preferred_ratios",
 )
 LIMIT_KEYS = ("min", "max")
+FACILITY_KEYS = ("section_area", "depth", "width", "blockage_max")
 SCALES_AS_NAMES = ("horizontal", "vertical", "velocity", "rho", "mu", "nu", "sigma", "c", "g")
 
 
@@ -157,6 +159,26 @@ class Instrument:
 
 
 @dataclass(frozen=True)
+class Facility:
+    """The laboratory facility (``[facility]``): its cross-section and, for a tank, its depth
+    and width [SI]; ``blockage_max`` is the case's ceiling on the blockage ratio [-]."""
+
+    section_area: float | None = None
+    depth: float | None = None
+    width: float | None = None
+    blockage_max: float | None = None
+
+    def environment(self) -> dict[str, float]:
+        """Facility names of the thresholds (``section_area``, ``tank_depth``, ``tank_width``)
+        with the values given; the section is the tank's width x depth when not given."""
+        area = self.section_area
+        if area is None and self.depth is not None and self.width is not None:
+            area = self.depth * self.width
+        named = {"section_area": area, "tank_depth": self.depth, "tank_width": self.width}
+        return {k: v for k, v in named.items() if v is not None}
+
+
+@dataclass(frozen=True)
 class ModelChoices:
     """The designer's choices and their bounds (ratios model/prototype, SI)."""
 
@@ -194,6 +216,8 @@ class Case:
     display_units: str = "si"
     #: the laboratory's instruments (``[instruments]``), for ``compromise resolution``
     instruments: tuple[Instrument, ...] = ()
+    #: the laboratory facility (``[facility]``): test section, tank depth and width
+    facility: Facility = field(default_factory=Facility)
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""

@@ -283,6 +283,83 @@ THRESHOLDS: tuple[Threshold, ...] = (
         "ch. 6; the transition first observed by Reynolds, O. (1883), Phil. Trans. R. Soc. 174)",
         "from memory",
     ),
+    Threshold(
+        "cavitation",
+        "chute_surface",
+        "cavitation index at the flow surface, (p_ambient + rho g h - p_v) / (rho V^2 / 2)",
+        "(p_ambient + rho * g * depth - p_vapour) / (0.5 * rho * velocity**2)",
+        "min",
+        0.25,
+        1.8,
+        "-",
+        "Falvey, H. T. (1990). Cavitation in Chutes and Spillways. US Bureau of Reclamation, "
+        "Engineering Monograph 42, ch. on design criteria: above about 1.8 a chute surface "
+        "needs no cavitation protection; between about 0.25 and 1.8 offsets and irregularities "
+        "must be ground to tolerances; below 0.25 the design must change (and below about 0.2 "
+        "be aerated). h is the pressure head over the surface (the flow depth on a chute)",
+        "from memory",
+    ),
+    Threshold(
+        "blockage",
+        "solid_blockage",
+        "blockage ratio, model frontal area / test-section area",
+        "frontal_area / section_area",
+        "max",
+        0.10,
+        0.05,
+        "-",
+        "ship wind-tunnel tests: 'blockage ratio to the wind tunnel less than 5%', a ceiling of "
+        "0.05 (IMO guideline for wind-tunnel tests of ships' wind loads, document number not "
+        "checked); beyond about 0.1 the classical corrections lose accuracy (Barlow, J. B., "
+        "Rae, W. H., "
+        "Pope, A. (1999). Low-Speed Wind Tunnel Testing, 3rd ed., Wiley, ch. 9, boundary "
+        "corrections)",
+        "from memory",
+    ),
+    Threshold(
+        "tank_walls",
+        "depth_froude",
+        "depth Froude number of the towed model, V / (g h_tank)^0.5",
+        "velocity / sqrt(g * tank_depth)",
+        "max",
+        0.7,
+        0.5,
+        "-",
+        "shallow-water effects on resistance are small below a depth Froude number of about "
+        "0.5 and grow fast towards the critical speed (1.0); 0.7 is the usual upper bound of a "
+        "deep-water test (Schlichting, O. (1934), Schiffswiderstand auf beschraenkter "
+        "Wassertiefe, STG Jahrbuch 35; ITTC Recommended Procedure 7.5-02-02-01, Resistance "
+        "Test, section on blockage and finite depth corrections)",
+        "from memory",
+    ),
+    Threshold(
+        "tank_walls",
+        "depth_draught",
+        "tank depth over model draught, h_tank / T",
+        "tank_depth / draught",
+        "min",
+        4.0,
+        4.0,
+        "-",
+        "a tank depth of at least 4 draughts keeps the bottom's effect on the flow around "
+        "the hull small at moderate speeds (ITTC Recommended Procedure 7.5-02-02-01, section "
+        "on finite depth; value recalled)",
+        "from memory",
+    ),
+    Threshold(
+        "tank_walls",
+        "blockage",
+        "tank blockage, midship section area / (tank width x tank depth)",
+        "frontal_area / (tank_width * tank_depth)",
+        "max",
+        0.02,
+        0.01,
+        "-",
+        "keep the midship section within about 0.01-0.02 of the tank's cross-section, else "
+        "correct (Schuster, S. (1956), Jahrbuch STG 50; Tamura, K. (1972); as named in ITTC "
+        "Recommended Procedure 7.5-02-02-01, section 'Blockage and Finite Depth Corrections')",
+        "from memory",
+    ),
 )
 
 #: Phenomenon name -> one-line description.
@@ -299,10 +376,26 @@ PHENOMENA: dict[str, str] = {
     "compressibility": "gas flows that must stay incompressible",
     "pipe_flow": "full pipe flow (friction)",
     "distortion": "distorted models: how far the vertical scale is exaggerated",
+    "cavitation": "cavitation on chutes, gates and offsets (the cavitation index)",
+    "blockage": "a model in a wind-tunnel, flume or tunnel test section (solid blockage)",
+    "tank_walls": "towing tanks: the tank's depth and width (shallow water, blockage)",
 }
 
 #: Names a threshold may use that describe the design rather than a prototype quantity.
 DESIGN_NAMES: tuple[str, ...] = ("distortion",)
+
+#: Names a threshold may use that describe the laboratory facility (``[facility]``); infinite
+#: in the prototype (open air, open water), the facility's value in the model.
+FACILITY_NAMES: tuple[str, ...] = ("section_area", "tank_depth", "tank_width")
+
+#: Names of the fluid state a threshold may use (not quantities of the case).
+STATE_NAMES: tuple[str, ...] = ("p_ambient", "p_vapour")
+
+#: The thresholds whose ceiling ``[facility] blockage_max`` replaces in the solver's bound.
+BLOCKAGE_THRESHOLDS: tuple[tuple[str, str], ...] = (
+    ("blockage", "solid_blockage"),
+    ("tank_walls", "blockage"),
+)
 
 
 def thresholds_for(phenomenon: str) -> tuple[Threshold, ...]:
@@ -317,4 +410,22 @@ def conventional_names(phenomenon: str) -> tuple[str, ...]:
     out: set[str] = set()
     for t in thresholds_for(phenomenon):
         out |= ex.names(ex.parse(t.expression))
-    return tuple(sorted(out - set(ex.PROPERTY_NAMES) - set(DESIGN_NAMES)))
+    return tuple(
+        sorted(
+            out
+            - set(ex.PROPERTY_NAMES)
+            - set(DESIGN_NAMES)
+            - set(FACILITY_NAMES)
+            - set(STATE_NAMES)
+        )
+    )
+
+
+def facility_names(phenomenon: str) -> tuple[str, ...]:
+    """Facility names (``[facility]`` values) the phenomenon's thresholds use."""
+    from compromise import expressions as ex
+
+    out: set[str] = set()
+    for t in thresholds_for(phenomenon):
+        out |= ex.names(ex.parse(t.expression))
+    return tuple(sorted(out & set(FACILITY_NAMES)))

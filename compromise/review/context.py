@@ -8,6 +8,8 @@
 
 from __future__ import annotations
 
+import math
+
 from compromise import expressions as ex
 from compromise.casefile.model import Case, Group
 from compromise.solving.design import ConditionResult, Evaluation
@@ -28,6 +30,10 @@ def condition_environments(
     penv = {n: q.prototype for n, q in cond.quantities.items()} | proto | {"distortion": 1.0}
     menv = {n: q.model for n, q in cond.quantities.items()} | model
     menv["distortion"] = d.distortion
+    # the facility's dimensions: the model's; the prototype is in open air or water (infinite)
+    facility = case.facility.environment()
+    penv |= {n: math.inf for n in facility}
+    menv |= facility
     return penv, menv
 
 

@@ -22,7 +22,13 @@ from typing import Any
 
 from compromise import expressions as ex
 from compromise.casefile.model import Case, Group
-from compromise.physics.thresholds import DESIGN_NAMES, THRESHOLDS, Threshold, thresholds_for
+from compromise.physics.thresholds import (
+    DESIGN_NAMES,
+    FACILITY_NAMES,
+    THRESHOLDS,
+    Threshold,
+    thresholds_for,
+)
 from compromise.review.consequences import Consequence, consequences
 from compromise.review.context import condition_environments, evaluate_text
 from compromise.review.regimes import Regime, regimes
@@ -202,6 +208,8 @@ def with_thresholds(case: Case) -> Case:
         for t in thresholds_for(phen):
             if set(ex.names(ex.parse(t.expression))) & set(DESIGN_NAMES):
                 continue  # a bound on the design itself: the case's [model] bounds hold it
+            if set(ex.names(ex.parse(t.expression))) & set(FACILITY_NAMES):
+                continue  # a bound already: the loader put the facility's values in
             tree = ex.substitute(
                 ex.parse(t.expression), {k: ex.parse(v) for k, v in aliases.items()}
             )

@@ -306,6 +306,9 @@ def _limit_violations(case: Case, ev: Evaluation) -> list[Violation]:
         unit = _limit_unit(case, v.quantity)
         excess = v.model - v.bound if v.kind == "max" else v.bound - v.model
         section = "limits" if v.quantity in case.quantities else "groups"
+        threshold = case.groups.get(v.quantity)
+        if threshold is not None and threshold.threshold:
+            section = "phenomena"  # a threshold held as a bound (a facility's, or enforced)
         where = f" in condition '{cond}'" if cond else ""
         word = "above its maximum" if v.kind == "max" else "below its minimum"
         shown = "" if unit == "-" else f" {unit}"

@@ -243,9 +243,7 @@ class FluidStates:
         """The pressure grid [Pa] (one value for a liquid whose pressure no group names)."""
         lo, hi = self.case.model.pressure
         return (
-            grid_points(lo, hi, N_PRESSURES, log=True)
-            if self.pressure_searched
-            else np.array([lo])
+            grid_points(lo, hi, N_PRESSURES, log=True) if self.pressure_searched else np.array([lo])
         )
 
     def state_environment(self, T: float, P: float) -> dict[str, float]:

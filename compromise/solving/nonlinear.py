@@ -203,9 +203,7 @@ def best_nonlinear_state(obj: FullObjective, engine: object, n_temperatures: int
         batch, _ = engine.solve(p_all, obj.h_shift, extra)  # type: ignore[attr-defined]
         for k in np.flatnonzero(batch.feasible):
             state = fs.state_environment(float(T[k]), float(P))
-            starts.append(
-                (obj(batch.y[k], p_all[k], state), batch.y[k], float(T[k]), math.log(P))
-            )
+            starts.append((obj(batch.y[k], p_all[k], state), batch.y[k], float(T[k]), math.log(P)))
     if not starts:
         return None
     starts.sort(key=lambda s: s[0])

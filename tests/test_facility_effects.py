@@ -251,3 +251,23 @@ def test_facility_phenomenon_without_facility_is_a_case_error() -> None:
     with pytest.raises(CaseErrors) as err:
         case_from_dict(data, path="wt.toml")
     assert "facility.blockage_max" in str(err.value)
+
+
+def test_cli_check_facility_errors_exit_2_one_line_each(tmp_path: Path) -> None:
+    from typer.testing import CliRunner
+
+    from compromise.cli import app
+
+    text = (CASES / "wind_tunnel.toml").read_text()
+    text = text.replace('section_area = "0.6 m^2"', 'section_area = "0.6 m"')
+    text = text.replace('blockage_max = "5 %"', 'blockage_max = "150 %"')
+    path = tmp_path / "wt.toml"
+    path.write_text(text, encoding="utf-8")
+    result = CliRunner().invoke(app, ["check", str(path)])
+    assert result.exit_code == 2, result.output
+    assert "Traceback" not in result.output
+    lines = result.stderr.splitlines()
+    assert any("facility.section_area" in line and "area" in line for line in lines), lines
+    assert any("facility.blockage_max" in line for line in lines), lines
+    assert all(str(path) in line for line in lines), lines
+    assert len(lines) == 2, lines  # the bad area is not reported again as a missing one

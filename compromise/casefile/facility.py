@@ -36,6 +36,8 @@ def check_facility(L: Loader, data: Any) -> Facility:
         if key in data:
             q = L.quantity(data[key], f"facility.{key}", dim)
             values[key] = q[0] if q else None
+            if q is None:
+                L.rejected.add(f"facility.{key}")  # reported here; not again as missing
     if "blockage_max" in data:
         raw = data["blockage_max"]
         q = L.quantity(raw, "facility.blockage_max", (0, 0, 0, 0))
@@ -60,7 +62,8 @@ def check_facility_needs(
     keys = {"section_area": "section_area", "tank_depth": "depth", "tank_width": "width"}
     for phen in phenomena:
         for name in facility_names(phen):
-            if name not in have:
+            rejected = {f"facility.{k}" for k in ("section_area", "depth", "width")}
+            if name not in have and not rejected & L.rejected:
                 extra = " (or its depth and width)" if name == "section_area" else ""
                 L.error(
                     f"phenomena.{phen}",

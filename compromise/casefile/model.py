@@ -177,6 +177,15 @@ class Facility:
         named = {"section_area": area, "tank_depth": self.depth, "tank_width": self.width}
         return {k: v for k, v in named.items() if v is not None}
 
+    def to_dict(self) -> dict[str, float | None]:
+        """Plain data [SI]; the section is the one the thresholds use."""
+        return {
+            "section_area": self.environment().get("section_area"),
+            "depth": self.depth,
+            "width": self.width,
+            "blockage_max": self.blockage_max,
+        }
+
 
 @dataclass(frozen=True)
 class ModelChoices:
@@ -290,6 +299,8 @@ class Case:
                 for lim in self.limits
             ],
             "phenomena": {k: dict(v) for k, v in self.phenomena.items()},
+            # only a case with a [facility] shows it (other cases' summaries are unchanged)
+            **({"facility": self.facility.to_dict()} if self.facility != Facility() else {}),
         }
 
 

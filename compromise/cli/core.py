@@ -137,7 +137,10 @@ def scales(
     pressure: Annotated[
         str | None,
         typer.Option(
-            "--pressure", help="Model fluid pressure for a gas, e.g. '5 bar'.", show_default=False
+            "--pressure",
+            help="Model fluid pressure for a gas, or a liquid facility's ambient pressure, "
+            "e.g. '5 bar'.",
+            show_default=False,
         ),
     ] = None,
     condition: Annotated[

@@ -68,7 +68,11 @@ def evaluate(
     ] = None,
     pressure: Annotated[
         str | None,
-        typer.Option("--pressure", help="Model fluid pressure for a gas.", show_default=False),
+        typer.Option(
+            "--pressure",
+            help="Model fluid pressure for a gas, or a liquid facility's ambient pressure.",
+            show_default=False,
+        ),
     ] = None,
     velocity: Annotated[
         str | None,

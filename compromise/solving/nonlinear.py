@@ -3,8 +3,9 @@
 Such a group's log-mismatch is not linear in the log-ratios, so the subproblem is no longer a
 convex QP. The fallback keeps the exact machinery for everything else: for every fluid and grid
 temperature it solves the convex part exactly, ranks those points by the full objective, then
-runs SLSQP on the full problem (log-ratios, temperature and, for a gas, log-pressure) from the
-best few of them, and keeps the best feasible result. Multi-start is the verification: the
+runs SLSQP on the full problem (log-ratios, temperature and log-pressure: a gas's, or a liquid
+facility's when a group names its ambient pressure, as the cavitation index does) from the best
+few of them, and keeps the best feasible result. Multi-start is the verification: the
 answer is the best of several independent local solves.
 """
 

@@ -179,14 +179,24 @@ class FluidTable:
         if isinstance(temperature, float | int):
             return self._scalar(float(temperature))
         t = np.asarray(temperature, dtype=float)
-        flat = t.reshape(-1)
+        v = np.exp(self._log_spline(t.reshape(-1)).T).reshape((self._k, *t.shape))
+        return {"rho": v[0], "mu": v[1], "nu": v[2], "sigma": v[3], "c": v[4]}
+
+    def _log_spline(self, flat: np.ndarray) -> np.ndarray:
+        """The splines' values (N, properties) at temperatures ``flat`` (N,)."""
         i = np.searchsorted(self._breaks, flat, side="right")
         d = (flat - self._left[i])[:, None]
         c = self._c[i]
         k = self._k
-        y = ((c[:, :k] * d + c[:, k : 2 * k]) * d + c[:, 2 * k : 3 * k]) * d + c[:, 3 * k :]
-        v = np.exp(y.T).reshape((k, *t.shape))
-        return {"rho": v[0], "mu": v[1], "nu": v[2], "sigma": v[3], "c": v[4]}
+        return ((c[:, :k] * d + c[:, k : 2 * k]) * d + c[:, 2 * k : 3 * k]) * d + c[:, 3 * k :]
+
+    def logs(self, temperatures: np.ndarray) -> np.ndarray:
+        """``ln`` of each property (N, 5: rho, mu, nu, sigma, c) at temperatures (N,) [K].
+
+        Exactly ``np.log`` of what a call returns (the same exponential, then its logarithm,
+        element by element), in one array for the solver's property log-ratios.
+        """
+        return np.log(np.exp(self._log_spline(np.asarray(temperatures, dtype=float))))
 
     def _scalar(self, t: float) -> dict[str, np.ndarray]:
         i = bisect.bisect_right(self._breaks_list, t) if t == t else len(self._breaks_list)

@@ -123,7 +123,27 @@ class State:
 def grid_points(lo: float, hi: float, n: int, log: bool = False) -> np.ndarray:
     if hi <= lo:
         return np.array([lo])
-    return np.geomspace(lo, hi, n) if log else np.linspace(lo, hi, n)
+    return np.geomspace(lo, hi, n) if log else linspace(lo, hi, n)
+
+
+def linspace(start: float, stop: float, num: int) -> np.ndarray:
+    """``np.linspace(start, stop, num)`` for two floats and ``num >= 2``, bit for bit (the same
+    operations in the same order: steps of ``(stop - start) / (num - 1)``, the last point set to
+    ``stop``) without its generic dispatch, which costs more than the points in a zoom round."""
+    if num < 2:
+        return np.linspace(start, stop, num)
+    div = num - 1
+    delta = float(stop) - float(start)
+    step = delta / div
+    y = np.arange(num, dtype=float)
+    if step == 0:  # numpy's handling of denormal steps
+        y /= div
+        y *= delta
+    else:
+        y *= step
+    y += float(start)
+    y[-1] = float(stop)
+    return y
 
 
 def source_logs(fluid: object, T: float, P: float) -> np.ndarray:
@@ -191,14 +211,11 @@ class FluidStates:
             )
 
     def _p(self, T: np.ndarray, P: float) -> np.ndarray:
-        tab = self.fluid.table(P)(np.asarray(T, dtype=float))
-        logs = np.column_stack(
-            [
-                np.log(tab[k]) if k != "g" else np.zeros(len(T))
-                for k in ("rho", "mu", "nu", "sigma", "c", "g")
-            ]
-        )
-        p = logs - self.proto_log
+        T = np.asarray(T, dtype=float).reshape(-1)
+        p = np.empty((T.size, 6))
+        # ln rho, mu, nu, sigma, c from the splines; gravity's log is 0 in model and prototype
+        np.subtract(self.fluid.table(P).logs(T), self.proto_log[:5], out=p[:, :5])
+        p[:, 5] = 0.0 - self.proto_log[5]
         p[:, ~self.used] = 0.0
         return p
 
@@ -233,9 +250,14 @@ class FluidStates:
         return p
 
     def pressures(self) -> np.ndarray:
-        """The pressure grid [Pa] (one value for a liquid)."""
-        lo, hi = self.case.model.pressure
-        return grid_points(lo, hi, N_PRESSURES, log=True) if self.gas else np.array([lo])
+        """The pressure grid [Pa] (one value for a liquid), computed once (read-only)."""
+        grid = self.__dict__.get("_pressures")
+        if grid is None:
+            lo, hi = self.case.model.pressure
+            grid = grid_points(lo, hi, N_PRESSURES, log=True) if self.gas else np.array([lo])
+            grid.flags.writeable = False
+            self._pressures = grid
+        return grid
 
 
 # --------------------------------------------------------------------------------------------
@@ -269,28 +291,28 @@ def _drive(engine: Engine, jobs: list[tuple[Job, Scenario]]) -> list[State | Non
     for i in range(len(jobs)):
         advance(i, None)
     m, k = engine.problem.G.shape[0], engine.extra.shape[0]
+    zeros_m, zeros_k = np.zeros(m), np.zeros(k)
     while pending:
         order = list(pending)
         sizes = [pending[i].shape[0] for i in order]
         p_all = np.vstack([pending[i] for i in order])
         shifted = any(jobs[i][1][0] is not None for i in order)
+        # each job's scenario row repeated for its requests (exact copies, one call)
         h_shift = (
-            np.vstack(
-                [
-                    np.broadcast_to(np.zeros(m) if jobs[i][1][0] is None else jobs[i][1][0], (n, m))
-                    for i, n in zip(order, sizes, strict=True)
-                ]
-            )
+            np.repeat(
+                np.array([zeros_m if jobs[i][1][0] is None else jobs[i][1][0] for i in order]),
+                sizes,
+                axis=0,
+            ).reshape(-1, m)
             if shifted
             else None
         )
         extra_e = (
-            np.vstack(
-                [
-                    np.broadcast_to(np.zeros(k) if jobs[i][1][1] is None else jobs[i][1][1], (n, k))
-                    for i, n in zip(order, sizes, strict=True)
-                ]
-            )
+            np.repeat(
+                np.array([zeros_k if jobs[i][1][1] is None else jobs[i][1][1] for i in order]),
+                sizes,
+                axis=0,
+            ).reshape(-1, k)
             if k
             else None
         )
@@ -324,7 +346,7 @@ def _single_job(
         if polish and len(T) > 1:
             half = T[1] - T[0]
             for _ in range(ZOOM_ROUNDS):
-                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
+                Tz = linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
                 _, _, obj = yield fs.p(Tz, p_best)
                 k = int(np.argmin(obj))
                 if obj[k] < obj0:
@@ -334,7 +356,7 @@ def _single_job(
             half = math.log(Ps[1] / Ps[0])
             lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
             for _ in range(ZOOM_ROUNDS):
-                lp = np.linspace(
+                lp = linspace(
                     max(lp_lo, math.log(p_best) - half),
                     min(lp_hi, math.log(p_best) + half),
                     N_ZOOM_PRESSURE,
@@ -360,7 +382,7 @@ def _liquid_job(fs: FluidStates, n_temperatures: int) -> Generator[np.ndarray, R
     half = float(grid[1] - grid[0]) if grid.size > 1 else 0.0
     for _ in range(ZOOM_ROUNDS if half > 0 else 0):
         lo, hi = fs.t_range
-        Tz = np.linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
+        Tz = linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
         _, _, o = yield fs.p(Tz, P)
         k = int(np.argmin(o))
         if o[k] < best[0]:

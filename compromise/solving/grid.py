@@ -244,6 +244,21 @@ class FluidStates:
             hit.flags.writeable = False
         return hit
 
+    def exact_ps(self, T: float, pressures: list[float]) -> np.ndarray:
+        """:meth:`exact_p` at one temperature and several pressures, as rows (the same values:
+        one subtraction over the stacked source logs instead of one per state)."""
+        T = float(T)
+        rows = [self._exact.get((T, float(P))) for P in pressures]
+        if all(r is not None for r in rows):
+            return np.array(rows)
+        out = np.array([source_logs(self.fluid, T, P) for P in pressures]) - self.proto_log
+        out[:, ~self.used] = 0.0
+        for P, row in zip(pressures, out, strict=True):
+            kept = row.copy()
+            kept.flags.writeable = False
+            self._exact.setdefault((T, float(P)), kept)
+        return out
+
     def _exact_p(self, T: float, P: float) -> np.ndarray:
         p = source_logs(self.fluid, T, P) - self.proto_log
         p[~self.used] = 0.0
@@ -361,7 +376,7 @@ def _single_job(
                     min(lp_hi, math.log(p_best) + half),
                     N_ZOOM_PRESSURE,
                 )
-                _, _, obj = yield np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
+                _, _, obj = yield fs.exact_ps(t_best, [math.exp(v) for v in lp])
                 k = int(np.argmin(obj))
                 if obj[k] < obj0:
                     obj0, p_best = float(obj[k]), math.exp(float(lp[k]))

@@ -19,18 +19,26 @@ under
 pymoo is installed for this script only (``.venv/bin/pip install pymoo``); it is not a
 dependency of compromise.
 
-Run: ``.venv/bin/python benchmarks/tradeoff.py``
+Then the same 100-point front with 1, 6, 24 and 96 candidate model fluids (water, seawater and
+glycerol-water mixtures): time, peak traced memory (tracemalloc) and the ratio to one fluid.
+Targets (issue 18): 96 fluids under 1 s, under 20x the one-fluid front, under 250 MB, growth at
+most linear. ``--fluids`` runs only this part (no pymoo needed).
+
+Run: ``.venv/bin/python benchmarks/tradeoff.py`` (``--fluids`` for the fluid scaling alone)
 """
 
 from __future__ import annotations
 
 import math
+import sys
 import time
+import tomllib
+import tracemalloc
 from pathlib import Path
 
 import numpy as np
 
-from compromise.casefile.load import load_case
+from compromise.casefile.load import case_from_dict, load_case
 from compromise.explore.axes import axes_for, state_spaces
 from compromise.explore.pareto import gd_plus_polyline, hypervolume, nondominated
 from compromise.explore.tradeoffs import trace_front
@@ -142,5 +150,35 @@ def main() -> None:
     )
 
 
+def fluid_names(n: int) -> list[str]:
+    """``n`` distinct liquids of the catalogue: water, seawater, then glycerol-water by 1 %."""
+    names = ["water", "seawater"] + [f"glycerol-water {k}%" for k in range(1, 100)]
+    return names[:n]
+
+
+def many_fluids() -> None:
+    """The 100-point front against the number of candidate fluids (time, peak memory)."""
+    data = tomllib.loads((ROOT / "cases" / "river_bend.toml").read_text())
+    print(f"\nfront of {' vs '.join(AXES)} with many candidate fluids (river case, 100 points)")
+    print(
+        f"{'fluids':>7s} {'time [s]':>9s} {'x 1 fluid':>10s} {'per fluid':>10s} {'peak [MB]':>10s}"
+    )
+    base = None
+    for n in (1, 6, 24, 96):
+        data["model"]["fluids"] = fluid_names(n)
+        case = case_from_dict(data, path="river_bend.toml")
+        trace_front(case, AXES, points=POINTS)  # tables built and cached
+        t, _ = timed(lambda case=case: trace_front(case, AXES, points=POINTS), repeat=3)
+        tracemalloc.start()
+        trace_front(case, AXES, points=POINTS)
+        peak = tracemalloc.get_traced_memory()[1]
+        tracemalloc.stop()
+        base = base or t
+        print(f"{n:7d} {t:9.3f} {t / base:10.1f} {t / base / n:10.2f} {peak / 2**20:10.1f}")
+    print("targets: 96 fluids under 1 s, under 20x one fluid, under 250 MB")
+
+
 if __name__ == "__main__":
-    main()
+    if "--fluids" not in sys.argv:
+        main()
+    many_fluids()

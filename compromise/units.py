@@ -7,8 +7,10 @@ Temperatures are handed to the core in kelvin; they are shown to users in degC.
 from __future__ import annotations
 
 import math
+import os
 import re
 from functools import lru_cache
+from pathlib import Path
 from typing import Any
 
 ZERO_CELSIUS = 273.15
@@ -60,12 +62,48 @@ DIMENSION_NAMES: dict[tuple[int, int, int, int], str] = {
 }
 
 
+def cache_folder(name: str) -> Path | None:
+    """``name`` under the user's cache directory (created on first use), or None.
+
+    For data compromise can always rebuild (pint's parsed definitions, fluid property
+    tables): None when ``COMPROMISE_NO_CACHE`` is set or the folder cannot be created or
+    written, and every caller then works without a cache, so a read-only home never breaks a
+    run. The directory is the platform's (``platformdirs``, a dependency of pint), e.g.
+    ``~/.cache/compromise`` on Linux.
+    """
+    if os.environ.get("COMPROMISE_NO_CACHE"):
+        return None
+    import platformdirs
+
+    folder = platformdirs.user_cache_path("compromise", appauthor=False) / name
+    try:
+        folder.mkdir(parents=True, exist_ok=True)
+    except OSError:
+        return None
+    return folder if os.access(folder, os.W_OK | os.X_OK) else None
+
+
 @lru_cache(maxsize=1)
 def registry() -> Any:
-    """Return the single pint ``UnitRegistry`` of compromise (built on first use)."""
+    """Return the single pint ``UnitRegistry`` of compromise (built on first use).
+
+    Parsing pint's definition files takes about 150 ms per run; pint keeps the parsed result
+    on disk (keyed by the files' contents) under the user's cache directory
+    (:func:`cache_folder`) and reads it back in about 15 ms. A cache that
+    cannot be read or written (a file half-written by a concurrent run, a full disk) is
+    ignored and the registry built from the definition files, as without a cache.
+    """
     import pint
 
-    ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
+    folder = cache_folder(f"pint-{pint.__version__}")
+    ureg = None
+    if folder is not None:
+        try:
+            ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True, cache_folder=folder)
+        except Exception:  # any cache failure: build without the cache
+            ureg = None
+    if ureg is None:
+        ureg = pint.UnitRegistry(autoconvert_offset_to_baseunit=True)
     ureg.formatter.default_format = "~P"
     for definition in TRADE_UNITS:
         ureg.define(definition)

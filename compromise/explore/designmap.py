@@ -29,6 +29,7 @@ from compromise.solving.design import Design
 from compromise.solving.grid import REGULARISATION, Engine, FluidStates, best_state
 from compromise.solving.problem import Problem, Row, build_problem
 from compromise.solving.qp import SmallQP
+from compromise.solving.threads import one_blas_thread
 
 MAP_AXES: dict[str, tuple[str, str]] = {
     "horizontal_ratio": ("horizontal ratio X (model / prototype)", "-"),
@@ -255,6 +256,7 @@ def _range(
     return float(lo), float(hi)
 
 
+@one_blas_thread
 def design_map(
     case: Case,
     axes: tuple[str, str] | list[str] | None = None,

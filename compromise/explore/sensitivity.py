@@ -40,6 +40,7 @@ from compromise.solving.grid import REGULARISATION, FluidStates
 from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import FEASIBILITY_TOL
 from compromise.solving.result import denoise
+from compromise.solving.threads import one_blas_thread
 
 CHUNK = 250  # samples per batch
 N_TEMPERATURES = 12
@@ -346,6 +347,7 @@ def weights_note(groups: tuple[str, ...]) -> str:
     )
 
 
+@one_blas_thread
 def weight_sensitivity(
     case: Case, *, spread: float = 10.0, samples: int = 2000, seed: int = 0
 ) -> Sensitivity:

@@ -69,6 +69,7 @@ from compromise.solving.design import Design
 from compromise.solving.grid import REGULARISATION
 from compromise.solving.problem import PROPERTY_NAMES, Problem
 from compromise.solving.qp import SmallQP
+from compromise.solving.threads import one_blas_thread
 
 __all__ = [
     "Axis",
@@ -427,6 +428,7 @@ def _warp(eps: np.ndarray, U: np.ndarray, axis: int, n: int) -> np.ndarray:
     return np.interp(np.linspace(0.0, s[-1], n), s, eps)
 
 
+@one_blas_thread
 def trace_front(
     case: Case,
     axes: list[str] | tuple[str, ...],

@@ -191,6 +191,22 @@ def parse(text: str) -> Expr:
     """
     if not isinstance(text, str):
         raise ExpressionError(f"an expression must be text; got {text!r}")
+    hit = _PARSED.get(text)
+    if hit is None:
+        hit = _parse(text)
+        if len(_PARSED) >= _PARSE_CACHE:
+            _PARSED.clear()
+        _PARSED[text] = hit
+    return hit
+
+
+#: Parsed trees by text: a tree is immutable (frozen dataclasses), and the scale-effect checks
+#: evaluate the same few texts for every design, so each text is parsed once per process.
+_PARSED: dict[str, Expr] = {}
+_PARSE_CACHE = 4096
+
+
+def _parse(text: str) -> Expr:
     if len(text) > MAX_LENGTH:
         raise ExpressionError(
             f"expression is too long ({len(text)} characters; the limit is {MAX_LENGTH})"

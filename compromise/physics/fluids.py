@@ -136,10 +136,22 @@ class FluidTable:
     :meth:`Fluid.properties` stays below 1e-4 everywhere in the range.
     """
 
-    def __init__(self, fluid: str, pressure: float, nodes: np.ndarray, log_values: np.ndarray):
-        from scipy.interpolate import CubicSpline
+    def __init__(
+        self,
+        fluid: str,
+        pressure: float,
+        nodes: np.ndarray,
+        log_values: np.ndarray,
+        spline_c: np.ndarray | None = None,
+    ):
+        if spline_c is None:  # a table read from the cache brings its coefficients
+            from scipy.interpolate import CubicSpline
 
-        spline = CubicSpline(nodes, np.nan_to_num(log_values), axis=0, bc_type="not-a-knot")
+            spline = CubicSpline(nodes, np.nan_to_num(log_values), axis=0, bc_type="not-a-knot")
+            spline_c = spline.c
+        #: scipy's PPoly coefficients (4, intervals, properties), kept for the disk cache
+        self.spline_c = spline_c
+        self.log_values = log_values
         self.fluid = fluid
         self.pressure = float(pressure)
         self.nodes = nodes
@@ -150,7 +162,7 @@ class FluidTable:
         # property that does not apply has nan coefficients, so no masking is needed per call.
         n, k = len(nodes) - 1, log_values.shape[1]
         coef = np.full((n + 2, 4, k), np.nan)
-        coef[1:-1] = np.moveaxis(spline.c, 0, 1)
+        coef[1:-1] = np.moveaxis(spline_c, 0, 1)
         coef[1:-1, :, np.isnan(log_values).any(axis=0)] = np.nan
         self._c = coef.reshape(n + 2, 4 * k)
         self._k = k
@@ -167,14 +179,24 @@ class FluidTable:
         if isinstance(temperature, float | int):
             return self._scalar(float(temperature))
         t = np.asarray(temperature, dtype=float)
-        flat = t.reshape(-1)
+        v = np.exp(self._log_spline(t.reshape(-1)).T).reshape((self._k, *t.shape))
+        return {"rho": v[0], "mu": v[1], "nu": v[2], "sigma": v[3], "c": v[4]}
+
+    def _log_spline(self, flat: np.ndarray) -> np.ndarray:
+        """The splines' values (N, properties) at temperatures ``flat`` (N,)."""
         i = np.searchsorted(self._breaks, flat, side="right")
         d = (flat - self._left[i])[:, None]
         c = self._c[i]
         k = self._k
-        y = ((c[:, :k] * d + c[:, k : 2 * k]) * d + c[:, 2 * k : 3 * k]) * d + c[:, 3 * k :]
-        v = np.exp(y.T).reshape((k, *t.shape))
-        return {"rho": v[0], "mu": v[1], "nu": v[2], "sigma": v[3], "c": v[4]}
+        return ((c[:, :k] * d + c[:, k : 2 * k]) * d + c[:, 2 * k : 3 * k]) * d + c[:, 3 * k :]
+
+    def logs(self, temperatures: np.ndarray) -> np.ndarray:
+        """``ln`` of each property (N, 5: rho, mu, nu, sigma, c) at temperatures (N,) [K].
+
+        Exactly ``np.log`` of what a call returns (the same exponential, then its logarithm,
+        element by element), in one array for the solver's property log-ratios.
+        """
+        return np.log(np.exp(self._log_spline(np.asarray(temperatures, dtype=float))))
 
     def _scalar(self, t: float) -> dict[str, np.ndarray]:
         i = bisect.bisect_right(self._breaks_list, t) if t == t else len(self._breaks_list)
@@ -314,10 +336,25 @@ class Fluid(ABC):
         )
 
     def table(self, pressure: float = ATMOSPHERE) -> FluidTable:
-        """The spline table at ``pressure`` [Pa], built on first use and cached."""
+        """The spline table at ``pressure`` [Pa], built on first use and cached.
+
+        A catalogue fluid's table is also kept on disk (:mod:`compromise.physics.tablecache`),
+        so a later run reads it back instead of evaluating the source models a few hundred
+        times and importing scipy's splines; the numbers are the same to the last bit.
+        """
         p = self._check_pressure(pressure)
         if p not in self._tables:
-            self._tables[p] = self._build_table(p)
+            from compromise.physics import tablecache
+
+            own = type(self).__module__ == __name__  # a subclass elsewhere may change a model
+            cached = tablecache.load(self.name, p) if own else None
+            if cached is None:
+                table = self._build_table(p)
+                if own:
+                    tablecache.save(self.name, p, (table.nodes, table.log_values, table.spline_c))
+            else:
+                table = FluidTable(self.name, p, *cached)
+            self._tables[p] = table
         return self._tables[p]
 
     def _log_rows(self, temperatures: np.ndarray, pressure: float) -> np.ndarray:

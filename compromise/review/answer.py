@@ -19,6 +19,7 @@ from compromise.solving.diagnose import Conflict
 from compromise.solving.grid import N_TEMPERATURES
 from compromise.solving.optimum import find_optimum
 from compromise.solving.result import Alternative, BindingCost, Solution
+from compromise.solving.threads import one_blas_thread
 
 
 @dataclass(frozen=True)
@@ -107,6 +108,7 @@ class Answer:
         return self.solution.to_frame()
 
 
+@one_blas_thread
 def solve(
     case: Case,
     *,

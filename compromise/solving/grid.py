@@ -123,7 +123,27 @@ class State:
 def grid_points(lo: float, hi: float, n: int, log: bool = False) -> np.ndarray:
     if hi <= lo:
         return np.array([lo])
-    return np.geomspace(lo, hi, n) if log else np.linspace(lo, hi, n)
+    return np.geomspace(lo, hi, n) if log else linspace(lo, hi, n)
+
+
+def linspace(start: float, stop: float, num: int) -> np.ndarray:
+    """``np.linspace(start, stop, num)`` for two floats and ``num >= 2``, bit for bit (the same
+    operations in the same order: steps of ``(stop - start) / (num - 1)``, the last point set to
+    ``stop``) without its generic dispatch, which costs more than the points in a zoom round."""
+    if num < 2:
+        return np.linspace(start, stop, num)
+    div = num - 1
+    delta = float(stop) - float(start)
+    step = delta / div
+    y = np.arange(num, dtype=float)
+    if step == 0:  # numpy's handling of denormal steps
+        y /= div
+        y *= delta
+    else:
+        y *= step
+    y += float(start)
+    y[-1] = float(stop)
+    return y
 
 
 def source_logs(fluid: object, T: float, P: float) -> np.ndarray:
@@ -194,18 +214,14 @@ class FluidStates:
             )
 
     def _p(self, T: np.ndarray, P: float) -> np.ndarray:
+        T = np.asarray(T, dtype=float).reshape(-1)
+        p = np.empty((T.size, 6))
         # a liquid's properties hardly depend on pressure (water: ~5e-10 /Pa); its splines are
-        # built once, at the lowest model pressure, the source models are asked at the state
-        tab = self.fluid.table(P if self.gas else self.case.model.pressure[0])(
-            np.asarray(T, dtype=float)
-        )
-        logs = np.column_stack(
-            [
-                np.log(tab[k]) if k != "g" else np.zeros(len(T))
-                for k in ("rho", "mu", "nu", "sigma", "c", "g")
-            ]
-        )
-        p = logs - self.proto_log
+        # built once, at the lowest model pressure, the source models are asked at the state.
+        # ln rho, mu, nu, sigma, c from the splines; gravity's log is 0 in model and prototype
+        table = self.fluid.table(P if self.gas else self.case.model.pressure[0])
+        np.subtract(table.logs(T), self.proto_log[:5], out=p[:, :5])
+        p[:, 5] = 0.0 - self.proto_log[5]
         p[:, ~self.used] = 0.0
         return p
 
@@ -234,17 +250,40 @@ class FluidStates:
             hit.flags.writeable = False
         return hit
 
+    def exact_ps(self, T: float, pressures: list[float]) -> np.ndarray:
+        """:meth:`exact_p` at one temperature and several pressures, as rows (the same values:
+        one subtraction over the stacked source logs instead of one per state)."""
+        T = float(T)
+        rows = [self._exact.get((T, float(P))) for P in pressures]
+        if all(r is not None for r in rows):
+            return np.array(rows)
+        out = np.array([source_logs(self.fluid, T, P) for P in pressures]) - self.proto_log
+        out[:, ~self.used] = 0.0
+        for P, row in zip(pressures, out, strict=True):
+            kept = row.copy()
+            kept.flags.writeable = False
+            self._exact.setdefault((T, float(P)), kept)
+        return out
+
     def _exact_p(self, T: float, P: float) -> np.ndarray:
         p = source_logs(self.fluid, T, P) - self.proto_log
         p[~self.used] = 0.0
         return p
 
     def pressures(self) -> np.ndarray:
-        """The pressure grid [Pa] (one value for a liquid whose pressure no group names)."""
-        lo, hi = self.case.model.pressure
-        return (
-            grid_points(lo, hi, N_PRESSURES, log=True) if self.pressure_searched else np.array([lo])
-        )
+        """The pressure grid [Pa] (one value for a liquid whose pressure no group names),
+        computed once (read-only)."""
+        grid = self.__dict__.get("_pressures")
+        if grid is None:
+            lo, hi = self.case.model.pressure
+            grid = (
+                grid_points(lo, hi, N_PRESSURES, log=True)
+                if self.pressure_searched
+                else np.array([lo])
+            )
+            grid.flags.writeable = False
+            self._pressures = grid
+        return grid
 
     def state_environment(self, T: float, P: float) -> dict[str, float]:
         """``p_ambient`` and ``p_vapour`` [Pa] of the model fluid at (T, P), source models."""
@@ -283,28 +322,28 @@ def _drive(engine: Engine, jobs: list[tuple[Job, Scenario]]) -> list[State | Non
     for i in range(len(jobs)):
         advance(i, None)
     m, k = engine.problem.G.shape[0], engine.extra.shape[0]
+    zeros_m, zeros_k = np.zeros(m), np.zeros(k)
     while pending:
         order = list(pending)
         sizes = [pending[i].shape[0] for i in order]
         p_all = np.vstack([pending[i] for i in order])
         shifted = any(jobs[i][1][0] is not None for i in order)
+        # each job's scenario row repeated for its requests (exact copies, one call)
         h_shift = (
-            np.vstack(
-                [
-                    np.broadcast_to(np.zeros(m) if jobs[i][1][0] is None else jobs[i][1][0], (n, m))
-                    for i, n in zip(order, sizes, strict=True)
-                ]
-            )
+            np.repeat(
+                np.array([zeros_m if jobs[i][1][0] is None else jobs[i][1][0] for i in order]),
+                sizes,
+                axis=0,
+            ).reshape(-1, m)
             if shifted
             else None
         )
         extra_e = (
-            np.vstack(
-                [
-                    np.broadcast_to(np.zeros(k) if jobs[i][1][1] is None else jobs[i][1][1], (n, k))
-                    for i, n in zip(order, sizes, strict=True)
-                ]
-            )
+            np.repeat(
+                np.array([zeros_k if jobs[i][1][1] is None else jobs[i][1][1] for i in order]),
+                sizes,
+                axis=0,
+            ).reshape(-1, k)
             if k
             else None
         )
@@ -338,7 +377,7 @@ def _single_job(
         if polish and len(T) > 1:
             half = T[1] - T[0]
             for _ in range(ZOOM_ROUNDS):
-                Tz = np.linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
+                Tz = linspace(max(t_lo, t_best - half), min(t_hi, t_best + half), N_ZOOM)
                 _, _, obj = yield fs.p(Tz, p_best)
                 k = int(np.argmin(obj))
                 if obj[k] < obj0:
@@ -348,12 +387,12 @@ def _single_job(
             half = math.log(Ps[1] / Ps[0])
             lp_lo, lp_hi = math.log(Ps[0]), math.log(Ps[-1])
             for _ in range(ZOOM_ROUNDS):
-                lp = np.linspace(
+                lp = linspace(
                     max(lp_lo, math.log(p_best) - half),
                     min(lp_hi, math.log(p_best) + half),
                     N_ZOOM_PRESSURE,
                 )
-                _, _, obj = yield np.array([fs.exact_p(t_best, math.exp(v)) for v in lp])
+                _, _, obj = yield fs.exact_ps(t_best, [math.exp(v) for v in lp])
                 k = int(np.argmin(obj))
                 if obj[k] < obj0:
                     obj0, p_best = float(obj[k]), math.exp(float(lp[k]))
@@ -374,7 +413,7 @@ def _liquid_job(fs: FluidStates, n_temperatures: int) -> Generator[np.ndarray, R
     half = float(grid[1] - grid[0]) if grid.size > 1 else 0.0
     for _ in range(ZOOM_ROUNDS if half > 0 else 0):
         lo, hi = fs.t_range
-        Tz = np.linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
+        Tz = linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
         _, _, o = yield fs.p(Tz, P)
         k = int(np.argmin(o))
         if o[k] < best[0]:

@@ -62,23 +62,55 @@ def least_violation(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) 
     b = np.hstack([h, e])  # (N, k)
     if A.shape[0] == 0:
         return np.zeros(N)
-    _, s, vt = np.linalg.svd(A)
-    r = int(np.sum(s > 1e-10 * max(float(s[0]), 1.0)))
-    if r == 0:
+    geometry = _geometry(A)
+    if geometry is None:
         return np.sum(np.maximum(-h, 0.0), axis=1) + np.sum(np.abs(e), axis=1)
-    if math.comb(A.shape[0], r) > MAX_VERTICES:
+    if geometry is _TOO_MANY:
         return np.array([_phase1_highs(G, h[i], E, e[i]) for i in range(N)])
-    B = A @ vt[:r].T  # (k, r): the rows in coordinates of their own span
-    combos = np.array(list(itertools.combinations(range(A.shape[0]), r)), dtype=int)
-    M = B[combos]  # (c, r, r)
-    sv = np.linalg.svd(M, compute_uv=False)
-    keep = sv[:, -1] > 1e-10 * np.maximum(sv[:, 0], 1.0)
-    combos, M = combos[keep], M[keep]
-    Minv = np.linalg.inv(M)  # (c, r, r)
+    B, combos, Minv = geometry
     u = np.einsum("cij,ncj->cni", Minv, b[:, combos])  # (c, N, r) vertices
     res = u @ B.T - b[None]  # (c, N, k)
     viol = np.sum(np.maximum(res[:, :, :m], 0.0), axis=2) + np.sum(np.abs(res[:, :, m:]), axis=2)
     return viol.min(axis=0)
+
+
+_TOO_MANY = (np.zeros((0, 0)), np.zeros((0, 0), dtype=int), np.zeros((0, 0, 0)))
+_GEOMETRIES: dict[tuple[tuple[int, ...], bytes], tuple[np.ndarray, ...] | None] = {}
+_GEOMETRY_CACHE = 256  # arrangements kept (a deletion filter asks for the same ones again)
+
+
+def _geometry(A: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray] | None:
+    """The vertex geometry of the rows ``A`` (k, n): the rows in coordinates of their span
+    ``B`` (k, r), the independent r-subsets ``combos`` (c, r) and their inverses ``Minv``
+    (c, r, r); None when every normal is zero, ``_TOO_MANY`` past :data:`MAX_VERTICES`.
+
+    It depends on the normals only, not on the right-hand sides, so it is kept per matrix:
+    the diagnosis tests the same subsets of rows for every fixed ratio and every re-solve.
+    """
+    key = (A.shape, A.tobytes())
+    if key in _GEOMETRIES:
+        return _GEOMETRIES[key]  # type: ignore[return-value]
+    _, s, vt = np.linalg.svd(A)
+    r = int(np.sum(s > 1e-10 * max(float(s[0]), 1.0)))
+    out: tuple[np.ndarray, np.ndarray, np.ndarray] | None
+    if r == 0:
+        out = None
+    elif math.comb(A.shape[0], r) > MAX_VERTICES:
+        out = _TOO_MANY
+    else:
+        B = A @ vt[:r].T  # (k, r): the rows in coordinates of their own span
+        combos = np.array(list(itertools.combinations(range(A.shape[0]), r)), dtype=int)
+        M = B[combos]  # (c, r, r)
+        sv = np.linalg.svd(M, compute_uv=False)
+        keep = sv[:, -1] > 1e-10 * np.maximum(sv[:, 0], 1.0)
+        combos, M = combos[keep], M[keep]
+        out = (B, combos, np.linalg.inv(M))  # inverses (c, r, r)
+        for a in out:
+            a.flags.writeable = False
+    if len(_GEOMETRIES) >= _GEOMETRY_CACHE:
+        _GEOMETRIES.clear()
+    _GEOMETRIES[key] = out
+    return out
 
 
 def _phase1_highs(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) -> float:
@@ -105,15 +137,27 @@ def _phase1_highs(G: np.ndarray, h: np.ndarray, E: np.ndarray, e: np.ndarray) ->
     return float(r.fun) if r.status == 0 else math.inf
 
 
+#: The distinct normals of a matrix of rows and each row's kind, by matrix (see _collapse).
+_KINDS: dict[tuple[tuple[int, ...], bytes], tuple[np.ndarray, np.ndarray]] = {}
+
+
 def _collapse(G: np.ndarray, h: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Rows with the same normal reduced to the tightest (the feasible set is unchanged)."""
     if G.shape[0] < 2:
         return G, h
-    unique, inverse = np.unique(G, axis=0, return_inverse=True)
+    key = (G.shape, G.tobytes())
+    found = _KINDS.get(key)
+    if found is None:
+        unique, inverse = np.unique(G, axis=0, return_inverse=True)
+        found = (unique, np.asarray(inverse).reshape(-1))
+        if len(_KINDS) >= _GEOMETRY_CACHE:
+            _KINDS.clear()
+        _KINDS[key] = found
+    unique, inverse = found
     if unique.shape[0] == G.shape[0]:
         return G, h
     tight = np.full(unique.shape[0], np.inf)
-    np.minimum.at(tight, np.asarray(inverse).reshape(-1), h)
+    np.minimum.at(tight, inverse, h)
     return unique, tight
 
 

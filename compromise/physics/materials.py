@@ -93,8 +93,7 @@ _ENTRIES = (
         2600,
         2700,
         "sediment",
-        "Soulsby (1997), Dynamics of Marine Sands, quartz 2650 kg/m^3; "
-        f"{_HUGHES} (from memory)",
+        f"Soulsby (1997), Dynamics of Marine Sands, quartz 2650 kg/m^3; {_HUGHES} (from memory)",
         "natural sand; geometrically scaled it is often too fine (cohesive) or too heavy to move",
     ),
     _m(

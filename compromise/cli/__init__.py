@@ -10,7 +10,14 @@ from __future__ import annotations
 
 import sys
 
-from compromise.cli import core, data, explore, report, review  # noqa: F401  (registers the commands)
+from compromise.cli import (  # noqa: F401  (registers the commands)
+    core,
+    data,
+    explore,
+    materials,
+    report,
+    review,
+)
 from compromise.cli.common import app
 
 __all__ = ["app", "main"]

@@ -11,6 +11,7 @@ from __future__ import annotations
 import dataclasses
 import json
 import re
+from pathlib import Path
 
 import pytest
 from typer.testing import CliRunner
@@ -156,3 +157,11 @@ def test_materials_command_rejects_an_argument():
     r = RUNNER.invoke(app, ["materials", "--temperature", "20 degC"])
     assert r.exit_code == 2
     assert "Traceback" not in r.output
+
+
+def test_docs_list_the_catalogue():
+    """docs/materials.md shows every entry with its typical density and range."""
+    doc = (Path(__file__).resolve().parents[1] / "docs" / "materials.md").read_text("utf-8")
+    for name, m in MATERIALS.items():
+        low, high = m.density_range
+        assert f"| {name} | {m.use} | {m.density:.0f} | {low:.0f}-{high:.0f} |" in doc, name

@@ -37,6 +37,7 @@ from compromise.casefile.model import (
     Quantity,
 )
 from compromise.casefile.physics_checks import check_physics
+from compromise.casefile.sediment import check_sediment, sediment_density_entry
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
 
@@ -169,6 +170,8 @@ def case_from_dict(
     # quantities --------------------------------------------------------------------------
     quantities: dict[str, Quantity] = {}
     qdata = L.table(proto.get("quantities", {}), "prototype.quantities")
+    if "sediment" in data:  # the prototype material's density, unless the case gives one
+        qdata = {**qdata, **sediment_density_entry(L, data["sediment"], qdata)}
     if not qdata:
         L.error("prototype.quantities", "expected at least one characteristic quantity")
     for name, entry in qdata.items():
@@ -269,6 +272,7 @@ def case_from_dict(
     # phenomena (checked with the rest, so every problem of the file is reported in one pass)
     phenomena = check_phenomena(L, data.get("phenomena", []), quantities)
     instruments = check_instruments(L, data.get("instruments", {}), quantities)
+    sediment = check_sediment(L, data.get("sediment"), quantities, groups)
     case = Case(
         phenomena=phenomena,
         path=path,
@@ -285,6 +289,7 @@ def case_from_dict(
         source_sha256=source_sha256 or canonical_sha256(data),
         display_units=display_units,
         instruments=instruments,
+        sediment=sediment,
     )
     # what the solver would refuse (group values, fluid properties), in the same pass
     check_physics(

@@ -11,6 +11,7 @@ a brute-force search independent of the solver.
 
 from __future__ import annotations
 
+import copy
 import itertools
 import math
 from pathlib import Path
@@ -122,6 +123,26 @@ def test_exact_optimum_matches_a_brute_force_over_grain_size_and_ratios() -> Non
     assert sol.design.grain_size == pytest.approx(6e-4, rel=1e-9)
     assert sol.design.material == "anthracite"
     assert math.log(sol.design.grain_size / 5e-4) == pytest.approx(best[3], abs=2e-3)
+
+
+def test_moving_bed_floor_binds_at_the_critical_value_of_the_answers_grain() -> None:
+    # a prototype near the threshold of motion (theta 0.049) and a quartz model: the model
+    # grain that keeps Shields would be below its own critical value (Soulsby & Whitehouse
+    # 1997), so the floor binds at the critical value of the grain the answer chooses
+    data = copy.deepcopy(SMALL)
+    data["prototype"]["quantities"]["shear_velocity"] = "0.02 m/s"
+    data["sediment"]["materials"] = ["quartz sand"]
+    data["sediment"]["grain_size"] = {"min": "0.1 mm", "max": "2 mm"}
+    sol = find_optimum(case_from_dict(data), alternatives=False)
+    d = sol.design
+    assert d is not None and d.grain_size is not None and sol.sediment is not None
+    rho = get_fluid("water").properties(293.15, 101325.0)
+    crit = theta_cr_sw1997(d.grain_size, 2650 / rho.density - 1, rho.kinematic_viscosity)
+    theta = evaluate_design(sol.case, d).conditions[0].groups["shields"]
+    assert theta.prototype < crit * 1.5  # near the threshold
+    assert theta.model == pytest.approx(crit, rel=1e-9)
+    assert "fixed point" in sol.sediment.path and "round" in sol.sediment.path
+    assert sol.sediment.morphological_time_ratio is None  # at the threshold: no transport
 
 
 def test_breakwater_armour_size_keeps_the_stability_number_hand_derivation() -> None:

@@ -439,7 +439,11 @@ def best_grain_state(
         p_mid = fs.exact_p(t_mid, P)
         w = math.log(max(gp.sed.grain_size[0], COHESION_LIMIT) / gp.d0)
         floor = critical_shields(gp, np.array([0.0, 0.0, 0.0, w]), p_mid, rho_s)
-    seen: list[float] = []
+    # the scalar equation floor = critical(answer(floor)), by secant steps (a plain step
+    # first): where the floor does not bind the answer does not depend on it and one secant
+    # step ends it; where it binds the plain iteration converges only linearly
+    prev: tuple[float, float] | None = None  # (floor, residual)
+    top = floor
     for k in range(1, FLOOR_ROUNDS + 1):
         found = _search(engine, fs, rho_s, floor, n_temperatures, h_shift, extra_e)
         if found is None:
@@ -448,12 +452,22 @@ def best_grain_state(
         if held:
             return GrainState(fs.name, material, t, P, u, obj, floor, 0)
         new = critical_shields(gp, u, fs.exact_p(t, P), rho_s)
-        seen.append(floor)
-        if abs(new - floor) <= FLOOR_TOL * floor:
+        resid = new - floor
+        if abs(resid) <= FLOOR_TOL * floor:
             return GrainState(fs.name, material, t, P, u, obj, floor, k)
-        # past half the rounds, hold the largest value seen: the floor then only rises
-        floor = new if k < FLOOR_ROUNDS // 2 else max(new, *seen)
-    return GrainState(fs.name, material, t, P, u, obj, floor, -FLOOR_ROUNDS)
+        step = new
+        if prev is not None and resid != prev[1]:
+            cand = floor - resid * (floor - prev[0]) / (resid - prev[1])
+            if math.isfinite(cand) and cand > 0:
+                step = cand
+        prev = (floor, resid)
+        floor = step
+        top = max(top, new, floor)
+    # no fixed point: hold the largest critical value met (conservative) and say so
+    found = _search(engine, fs, rho_s, top, n_temperatures, h_shift, extra_e)
+    if found is None:
+        return None
+    return GrainState(fs.name, material, found[1], P, found[2], found[0], top, -FLOOR_ROUNDS)
 
 
 def all_grain_states(

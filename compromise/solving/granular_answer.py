@@ -125,8 +125,8 @@ def sediment_account(
     if gp.floor_row is not None:
         if best.rounds > 0:
             path += (
-                f"; moving-bed floor at the critical Shields value of the answer's grain, "
-                f"fixed point in {best.rounds} round{'s' if best.rounds != 1 else ''}"
+                f"; moving-bed floor at the critical Shields value of the answer's own grain "
+                f"(a fixed point, {best.rounds} round{'s' if best.rounds != 1 else ''})"
             )
         else:
             path += "; moving-bed floor held at the largest critical value seen (no fixed point)"

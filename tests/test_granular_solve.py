@@ -223,3 +223,21 @@ def test_unknown_material_is_a_one_line_error(tmp_path: Path) -> None:
     assert res.exit_code == 2
     assert "sediment.materials[1]" in res.output and "unobtainium" in res.output
     assert "Traceback" not in res.output
+
+
+def test_map_draws_grain_size_against_the_horizontal_ratio() -> None:
+    # every cell is the solver's problem with X and d fixed: no cell beats the optimum, and
+    # the cell nearest the optimum is as good up to the grid's spacing
+    from compromise.explore.designmap import design_map
+
+    case = load_case(ROOT / "cases" / "heron_reach.toml")
+    dmap = design_map(case, ("horizontal_ratio", "grain_size"), resolution=81, n_temperatures=4)
+    assert dmap.axes == ("horizontal_ratio", "grain_size")
+    assert dmap.optimum is not None and dmap.optimum.grain_size is not None
+    finite = dmap.objective[np.isfinite(dmap.objective)]
+    assert finite.size and float(finite.min()) >= dmap.optimum_objective - 1e-9
+    x_mm = dmap.coordinates(dmap.optimum)[1]
+    assert x_mm == pytest.approx(dmap.optimum.grain_size * 1e3)
+    assert dmap.grid(1)[0] == pytest.approx(0.1)  # the cohesion limit, in mm
+    res = CliRunner().invoke(app, ["map", str(ROOT / "cases" / "heron_reach.toml"), "--json"])
+    assert res.exit_code == 0, res.output

@@ -241,3 +241,20 @@ def test_map_draws_grain_size_against_the_horizontal_ratio() -> None:
     assert dmap.grid(1)[0] == pytest.approx(0.1)  # the cohesion limit, in mm
     res = CliRunner().invoke(app, ["map", str(ROOT / "cases" / "heron_reach.toml"), "--json"])
     assert res.exit_code == 0, res.output
+
+
+def test_review_of_the_saved_answer_reproduces_the_optimum(tmp_path: Path) -> None:
+    # the review of the solver's own answer (material and grain size read back from the
+    # saved JSON) has the optimum's weighted mismatch and breaks nothing
+    from compromise.casefile.designs import load_design_file
+    from compromise.review.proposal import design_from_spec, evaluate
+
+    path = ROOT / "cases" / "heron_reach.toml"
+    saved = tmp_path / "answer.json"
+    saved.write_text(CliRunner().invoke(app, ["solve", str(path), "--json"]).stdout)
+    case = load_case(path)
+    design, notes = design_from_spec(case, load_design_file(saved))
+    review = evaluate(case, design, notes=notes)
+    assert design.material == "polystyrene" and not any("material" in n for n in notes)
+    assert review.holds
+    assert review.objective == pytest.approx(review.optimum.objective, rel=1e-6)

@@ -496,3 +496,47 @@ def all_grain_states(
                 floor=floor,
             )
     return out
+
+
+def grain_for_ratios(
+    case: Case, fluid: str, temperature: float, pressure: float, y: np.ndarray
+) -> tuple[str, float, float]:
+    """The material and grain size of least weighted mismatch for given ratios and fluid
+    state (a proposed design that names neither): ``(material, grain size [m], objective)``.
+
+    With the ratios fixed the objective is a quadratic in ``w`` alone; its minimiser is
+    clipped to the case's grain-size range. A group kept exactly that involves the grain
+    (the stability number, say) fixes ``w`` instead. Limits are not enforced here: a review
+    reports them.
+    """
+    from compromise.physics.materials import get_material
+
+    gp = GranularProblem(case)
+    fs = FluidStates(case, fluid, gp.used)
+    p = fs.exact_p(temperature, pressure)[None]
+    lo = math.log(gp.sed.grain_size[0] / gp.d0)
+    hi = math.log(gp.sed.grain_size[1] / gp.d0)
+    best: tuple[str, float, float] | None = None
+    for mat in gp.sed.materials:
+        c = gp.constants(p, get_material(mat).density)[0]
+        rest = gp.A[:, :N_DECISION] @ y + (c[gp.sel] if gp.sel.size else 0.0)
+        aw = gp.A[:, N_DECISION]
+        tied = [
+            j
+            for j in range(gp.E.shape[0])
+            if gp.E[j, N_DECISION] != 0 and gp.exact[j] != "grain_size"
+        ]
+        if tied:
+            j = tied[0]
+            e = gp.e0[j] + gp.Ec[j] @ c + gp.Q[j] @ p[0]
+            w = (e - gp.E[j, :N_DECISION] @ y) / gp.E[j, N_DECISION]
+        elif float(gp.W @ aw**2) > 0:
+            w = -float((gp.W * aw) @ rest) / float(gp.W @ aw**2)
+        else:
+            w = float(y[1])  # nothing depends on it: the grain scaled as the depth
+        w = min(max(w, lo), hi)
+        obj = float(gp.W @ (rest + aw * w) ** 2)
+        if best is None or obj < best[2] - 1e-15:
+            best = (mat, gp.d0 * math.exp(w), obj)
+    assert best is not None
+    return best

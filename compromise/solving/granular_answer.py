@@ -14,7 +14,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CompromiseError
 from compromise.solving.design import Design, Evaluation, evaluate_design
-from compromise.solving.diagnose import relaxed_bound
+from compromise.solving.diagnose import Conflict, relaxed_bound
 from compromise.solving.granular import (
     GrainEngine,
     GrainState,
@@ -64,7 +64,8 @@ def granular_optimum(
     best = pick(states, case)
     if best is None:
         alts = _alternatives(case, gp, states, None, n_temperatures) if alternatives else ()
-        return Solution(case, "infeasible", math.inf, None, None, {}, alts)
+        conflict = granular_conflict(case, gp, engine)
+        return Solution(case, "infeasible", math.inf, None, None, {}, alts, conflict)
     if not math.isfinite(best.objective):  # pragma: no cover - as find_optimum
         raise CompromiseError(f"{case.path}: the weighted mismatch of the best design is inf")
     design = design_of_grain(gp, best)
@@ -76,6 +77,51 @@ def granular_optimum(
     return Solution(
         case, "optimal", best.objective, design, evaluation, binding, alts, sediment=account
     )
+
+
+N_DIAGNOSIS_TEMPERATURES = 6
+UNBOUND = 1e6  # a right-hand-side shift that takes a row out of play
+
+
+def granular_conflict(case: Case, gp: GranularProblem, engine: GrainEngine) -> Conflict:
+    """A smallest set of bounds that cannot hold together, by a deletion filter: each row in
+    turn is taken out of play, and stays out while the rest is still infeasible for every
+    fluid, material and temperature of a coarse grid (the moving-bed floor is left out of the
+    diagnosis: its bound depends on the answer)."""
+    from compromise.physics.materials import get_material
+    from compromise.solving.grid import FluidStates, grid_points
+
+    batches = []
+    for f in case.model.fluids:
+        fs = FluidStates(case, f, gp.used)
+        T = grid_points(*fs.t_range, N_DIAGNOSIS_TEMPERATURES)
+        p = fs.p(T, float(fs.pressures()[0]))
+        for mat in gp.sed.materials:
+            batches.append((p, gp.constants(p, get_material(mat).density)))
+    p_all = np.vstack([b[0] for b in batches])
+    c_all = np.vstack([b[1] for b in batches])
+    m = gp.G.shape[0]
+
+    def infeasible(out: np.ndarray) -> bool:
+        _, obj = engine.solve(p_all, c_all, None, h_shift=np.where(out, UNBOUND, 0.0))
+        return not np.isfinite(obj).any()
+
+    out = np.zeros(m, dtype=bool)
+    if gp.floor_row is not None:
+        out[gp.floor_row] = True
+    if not infeasible(out):  # only the equalities, or the floor: nothing to name
+        keys: tuple[str, ...] = ()
+    else:
+        for i in range(m):
+            if out[i]:
+                continue
+            out[i] = True
+            if not infeasible(out):
+                out[i] = False
+        keys = tuple(dict.fromkeys(gp.rows[i].key for i in range(m) if not out[i]))
+    if not keys:
+        keys = tuple(f"groups.{n}.exact" if n in case.groups else n for n in gp.exact)
+    return Conflict(keys, dict.fromkeys(keys), dict.fromkeys(keys))
 
 
 def sediment_account(

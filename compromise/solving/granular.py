@@ -258,6 +258,8 @@ class GranularProblem:
         for name, nrm, (lo, hi) in [*bounds, grain]:
             normal = np.array(nrm, dtype=float)
             prefix = "sediment" if name == "grain_size" else "model"
+            # the user's bound: a ratio, or for the grain its size [m]
+            scale = self.d0 if name == "grain_size" else 1.0
             if lo == hi:
                 E.append(normal), e0.append(math.log(lo)), Ec.append(zc), Q.append(zp)
                 exact.append(name)
@@ -267,7 +269,7 @@ class GranularProblem:
                 -math.log(lo),
                 zc,
                 zp,
-                Row("bound", name, "min", lo, None, f"{prefix}.{name}.min"),
+                Row("bound", name, "min", lo * scale, None, f"{prefix}.{name}.min"),
             )
             if math.isfinite(hi):
                 add(
@@ -275,7 +277,7 @@ class GranularProblem:
                     math.log(hi),
                     zc,
                     zp,
-                    Row("bound", name, "max", hi, None, f"{prefix}.{name}.max"),
+                    Row("bound", name, "max", hi * scale, None, f"{prefix}.{name}.max"),
                 )
         self.floor_row: int | None = None
         if sed.moving_bed:

@@ -110,7 +110,7 @@ def granular_conflict(case: Case, gp: GranularProblem, engine: GrainEngine) -> C
     if gp.floor_row is not None:
         out[gp.floor_row] = True
     if not infeasible(out):  # only the equalities, or the floor: nothing to name
-        keys: tuple[str, ...] = ()
+        kept: list[int] = []
     else:
         for i in range(m):
             if out[i]:
@@ -118,10 +118,65 @@ def granular_conflict(case: Case, gp: GranularProblem, engine: GrainEngine) -> C
             out[i] = True
             if not infeasible(out):
                 out[i] = False
-        keys = tuple(dict.fromkeys(gp.rows[i].key for i in range(m) if not out[i]))
+        kept = [i for i in range(m) if not out[i]]
+    h_all = gp.h0 + c_all @ gp.Hc.T + p_all @ gp.P.T
+    e_all = gp.e0 + c_all @ gp.Ec.T + p_all @ gp.Q.T
+    rows = [i for i in range(m) if i != gp.floor_row]
+    keys: list[str] = []
+    relaxation: dict[str, float | None] = {}
+    conditions: dict[str, str | None] = {}
+    units: dict[str, str] = {}
+    for i in kept:
+        row = gp.rows[i]
+        if row.key in relaxation:
+            continue
+        keys.append(row.key)
+        conditions[row.key] = row.condition
+        if row.kind == "limit":
+            units[row.key] = case.quantities[row.name].unit
+        elif row.name == "grain_size":
+            units[row.key] = "m"
+        elif row.kind == "bound" and row.name != "distortion":
+            units[row.key] = "ratio"
+        else:
+            units[row.key] = "-"
+        relaxation[row.key] = _relaxation(gp, i, rows, h_all, e_all)
     if not keys:
-        keys = tuple(f"groups.{n}.exact" if n in case.groups else n for n in gp.exact)
-    return Conflict(keys, dict.fromkeys(keys), dict.fromkeys(keys))
+        keys = [f"groups.{n}.exact" if n in case.groups else f"model.{n}" for n in gp.exact]
+        relaxation = dict.fromkeys(keys)
+        conditions = dict.fromkeys(keys)
+    return Conflict(tuple(keys), relaxation, conditions, units)
+
+
+def _relaxation(
+    gp: GranularProblem, i: int, rows: list[int], h_all: np.ndarray, e_all: np.ndarray
+) -> float | None:
+    """The bound of row ``i`` that makes the case feasible with every other row kept (as
+    :func:`compromise.solving.diagnose.diagnose` finds it): the least ``G_i u`` over the rest,
+    by linear programming, over the diagnosis states; None where no bound helps."""
+    from scipy.optimize import linprog
+
+    others = [j for j in rows if j != i]
+    best = math.inf
+    for hh, ee in zip(h_all, e_all, strict=True):
+        if not (np.all(np.isfinite(hh)) and np.all(np.isfinite(ee))):
+            continue
+        r = linprog(
+            gp.G[i],
+            A_ub=gp.G[others] if others else None,
+            b_ub=hh[others] if others else None,
+            A_eq=gp.E if gp.E.shape[0] else None,
+            b_eq=ee if gp.E.shape[0] else None,
+            bounds=[(None, None)] * gp.G.shape[1],
+            method="highs",
+        )
+        if r.status == 0:
+            best = min(best, float(r.fun) - float(hh[i]))
+        elif r.status == 3:
+            best = min(best, 0.0)
+    if not math.isfinite(best):
+        return None
+    return relaxed_bound(gp.rows[i], max(best, 0.0) * (1 + 1e-9))
 
 
 def sediment_account(
@@ -221,7 +276,12 @@ def _binding_costs(
     cA = c[:, gp.sel]
     grad = 2.0 * (gp.A.T * gp.W) @ (gp.A @ u + cA[0]) + 2.0 * engine.eps * (u - engine.u0)
     M = np.vstack([gp.G[active], gp.E, -gp.E]).T
-    sol, _ = nnls(M, -grad)
+    # where more rows bind than the optimum needs the multipliers are not unique: a tiny
+    # ridge picks the least-norm ones, which share the cost among the rows that hold the
+    # design together (each then reads as degenerate), rather than an arbitrary vertex
+    ridge = math.sqrt(1e-12 * max(1.0, float(np.sum(M**2))))
+    k = M.shape[1]
+    sol, _ = nnls(np.vstack([M, ridge * np.eye(k)]), np.concatenate([-grad, np.zeros(k)]))
     lam = sol[: active.size]
     shift = math.log(1.0 + RELAXATION)
     for i, li in zip(active, lam, strict=True):

@@ -258,3 +258,21 @@ def test_review_of_the_saved_answer_reproduces_the_optimum(tmp_path: Path) -> No
     assert design.material == "polystyrene" and not any("material" in n for n in notes)
     assert review.holds
     assert review.objective == pytest.approx(review.optimum.objective, rel=1e-6)
+
+
+def test_text_answer_and_report_show_the_material() -> None:
+    # the words a user reads carry the choice and its time scales (common practice: a
+    # movable-bed run's duration follows the morphological time scale)
+    res = CliRunner().invoke(app, ["solve", str(ROOT / "cases" / "heron_reach.toml")])
+    assert res.exit_code == 0, res.output
+    assert "model material     polystyrene" in res.output
+    assert "Granular material:" in res.output and "morphological time ratio" in res.output
+    from compromise.presentation.report import build_document, render_markdown
+    from compromise.review.report_data import report_data
+
+    data = report_data(
+        load_case(ROOT / "cases" / "heron_reach.toml"), resolution=15, points=8, samples=20
+    )
+    md = render_markdown(build_document(data))
+    assert "| model material | polystyrene | - |" in md
+    assert "The granular material." in md

@@ -15,6 +15,7 @@ import copy
 import itertools
 import math
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 import pytest
@@ -276,3 +277,54 @@ def test_text_answer_and_report_show_the_material() -> None:
     md = render_markdown(build_document(data))
     assert "| model material | polystyrene | - |" in md
     assert "The granular material." in md
+
+
+def _ferguson_church_2004(d: Any, R: float, nu: float) -> Any:
+    """Ferguson & Church (2004), C1 = 18, C2 = 1, written out here as the oracle."""
+    return R * G * d**2 / (18 * nu + np.sqrt(0.75 * R * G * d**3))
+
+
+def test_suspension_rouse_takes_the_nonlinear_path_and_a_brute_force_agrees(
+    tmp_path: Path,
+) -> None:
+    # Rouse P = w_s / (0.40 u*) (Rouse 1937, from memory) with the settling velocity of Ferguson
+    # & Church (2004): not a power product of the grain size, so the solve says it took the
+    # nonlinear path; at the answer the length ratios sit on two limits (hall length, least
+    # depth), so a dense search over the grain size alone is the oracle
+    text = (ROOT / "cases" / "heron_reach.toml").read_text()
+    text = text.replace(
+        'grain_size     = "0.6 mm"', 'settling_velocity = "0.075 m/s"\ngrain_size     = "0.6 mm"'
+    ).replace(
+        "particle_reynolds = { weight = 0.2 }",
+        "particle_reynolds = { weight = 0.2 }\nrouse             = { weight = 0.5 }",
+    )
+    path = tmp_path / "suspension.toml"
+    path.write_text(text)
+    sol = find_optimum(load_case(path))
+    d = sol.design
+    assert d is not None and d.grain_size is not None and sol.sediment is not None
+    assert sol.sediment.path.startswith("nonlinear: rouse")
+    wp = get_fluid("water").properties(288.15, 101325.0)
+    wm = get_fluid("water").properties(d.temperature, d.pressure)
+    R_p = 2650 / wp.density - 1
+    R_m = get_material(d.material or "").density / wm.density - 1
+    us_p = 0.0767
+    us_m = us_p * d.vertical_ratio / math.sqrt(d.horizontal_ratio)
+    ws_p = _ferguson_church_2004(6e-4, R_p, wp.kinematic_viscosity)
+
+    def objective(dm: np.ndarray) -> np.ndarray:
+        ws_m = 0.075 * _ferguson_church_2004(dm, R_m, wm.kinematic_viscosity) / ws_p
+        theta = (us_m**2 / (R_m * G * dm)) / (us_p**2 / (R_p * G * 6e-4))
+        rep = (us_m * dm / wm.kinematic_viscosity) / (us_p * 6e-4 / wp.kinematic_viscosity)
+        rouse = (ws_m / us_m) / (0.075 / us_p)
+        return np.log(theta) ** 2 + 0.2 * np.log(rep) ** 2 + 0.5 * np.log(rouse) ** 2
+
+    grid = np.geomspace(1e-4, 5e-3, 200001)
+    values = objective(grid)
+    k = int(np.argmin(values))
+    assert sol.objective == pytest.approx(float(values[k]), rel=1e-6)
+    assert sol.objective <= float(values[k]) + 1e-12
+    assert d.grain_size == pytest.approx(float(grid[k]), rel=1e-3)
+    ev = evaluate_design(sol.case, d).conditions[0].groups["rouse"]
+    ws_m = 0.075 * _ferguson_church_2004(d.grain_size, R_m, wm.kinematic_viscosity) / ws_p
+    assert ev.model == pytest.approx(ws_m / (0.40 * us_m), rel=1e-9)

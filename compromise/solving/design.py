@@ -338,7 +338,22 @@ def granular_model_values(case: Case, design: Design) -> dict[str, float]:
         )
     from compromise.physics.materials import get_material
 
-    return {sed.grain: design.grain_size, sed.density: get_material(design.material).density}
+    rho_s = get_material(design.material).density
+    out = {sed.grain: design.grain_size, sed.density: rho_s}
+    if "settling_velocity" in case.quantities:
+        # the model grain's settling velocity: the prototype's value times the ratio of the
+        # Ferguson & Church (2004) formula (C1 = 18, C2 = 1) at the model and prototype grains
+        from compromise.physics.sediment import settling_velocity_ferguson_church as fc
+
+        proto, model = property_environments(
+            case, design.fluid, design.temperature, design.pressure
+        )
+        vals = case.values(0)
+        ratio = fc(design.grain_size, rho_s / model["rho"] - 1.0, model["nu"]) / fc(
+            vals[sed.grain], vals[sed.density] / proto["rho"] - 1.0, proto["nu"]
+        )
+        out["settling_velocity"] = vals["settling_velocity"] * float(ratio)
+    return out
 
 
 def matched_by_construction(case: Case) -> frozenset[str]:

@@ -23,6 +23,7 @@ critical value, evaluate the critical value at the answer, re-solve, until the v
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 from typing import Any
@@ -45,6 +46,7 @@ from compromise.solving.problem import PROPERTY_NAMES, Row, bound_key, prototype
 from compromise.solving.qp import SmallQP
 
 N_U = N_DECISION + 1  # (x, z, v, w)
+SETTLING = "settling_velocity"  # the quantity whose model value the grain decides
 LINEAR_TOL = 1e-9  # [-] a group's log-mismatch must be linear in u to this
 FLOOR_ROUNDS = 30  # rounds of the fixed point on the critical Shields value
 FLOOR_TOL = 1e-12  # [-] relative change of the critical value that ends the rounds
@@ -64,6 +66,13 @@ class GrainState:
     rounds: int = 0
 
 
+def settling_velocity(d: Any, rho_s: Any, rho: Any, nu: Any) -> Any:
+    """Ferguson & Church (2004) settling velocity (C1 = 18, C2 = 1, natural grains) [m/s]."""
+    from compromise.physics.sediment import settling_velocity_ferguson_church
+
+    return settling_velocity_ferguson_church(d, rho_s / rho - 1.0, nu)
+
+
 class GranularProblem:
     """The linear structure of a case with ``[sediment]`` over ``u = (x, z, v, w)``.
 
@@ -79,6 +88,12 @@ class GranularProblem:
         self.case, self.sed = case, sed
         self.proto_env = prototype_environment(case, 0)
         self.d0 = self.proto_env[sed.grain]
+        #: the prototype grain's settling velocity by the formula, when the case has one: the
+        #: model's is the case's prototype value times the formula's ratio
+        self.ws_p: float | None = None
+        if SETTLING in case.quantities:
+            pe = self.proto_env
+            self.ws_p = float(settling_velocity(self.d0, pe[sed.density], pe["rho"], pe["nu"]))
         self.groups = [n for n, g in case.groups.items()]
         self.exprs = {n: case.groups[n].expression for n in self.groups}
         self.proto_values = {
@@ -106,16 +121,23 @@ class GranularProblem:
         sed = self.sed
         env: dict[str, Any] = {}
         y = u[..., :N_DECISION]
+        for i, n in enumerate(PROPERTY_NAMES):
+            env[n] = self.proto_env[n] * np.exp(p[..., i])
         for name, q in self.case.quantities.items():
             if name == sed.grain:
                 env[name] = self.d0 * np.exp(u[..., N_DECISION])
             elif name == sed.density:
                 env[name] = rho_s
+            elif name == SETTLING and self.ws_p is not None:
+                env[name] = self.proto_env[name] * (
+                    settling_velocity(
+                        self.d0 * np.exp(u[..., N_DECISION]), rho_s, env["rho"], env["nu"]
+                    )
+                    / self.ws_p
+                )
             else:
                 s = q.scaling
                 env[name] = self.proto_env[name] * np.exp(y @ s[:N_DECISION] + p @ s[N_DECISION:])
-        for i, n in enumerate(PROPERTY_NAMES):
-            env[n] = self.proto_env[n] * np.exp(p[..., i])
         return env
 
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
@@ -153,14 +175,16 @@ class GranularProblem:
     def _rows(self, case: Case) -> None:
         sed = self.sed
         nonlinear = [n for n in self.groups if self.normals[n] is None]
-        if nonlinear:
-            raise CaseError(
-                "the group is not a power product of the ratios, the grain size and the "
-                "relative density; a case with [sediment] needs groups that are (a settling "
-                "velocity, for one, is not)",
-                file=case.path,
-                key=f"groups.{nonlinear[0]}",
-            )
+        #: groups not linear in u (a settling velocity): the nonlinear polish handles them
+        self.nonlinear = tuple(nonlinear)
+        for n in nonlinear:
+            if case.groups[n].exact or n == "shields":
+                raise CaseError(
+                    "the group is not a power product of the ratios, the grain size and the "
+                    "relative density, so it cannot be kept exactly (give it a weight)",
+                    file=case.path,
+                    key=f"groups.{n}",
+                )
         ng = len(self.groups)
         gi = {n: i for i, n in enumerate(self.groups)}
         total = sum(c.weight for c in case.conditions)
@@ -183,7 +207,8 @@ class GranularProblem:
 
         for n in self.groups:
             g, a = case.groups[n], self.normals[n]
-            assert a is not None
+            if a is None:
+                continue
             if g.exact:
                 E.append(a), e0.append(0.0), Ec.append(onehot(gi[n], -1.0)), Q.append(zp)
                 exact.append(n)
@@ -542,3 +567,76 @@ def grain_for_ratios(
             best = (mat, gp.d0 * math.exp(w), obj)
     assert best is not None
     return best
+
+
+def polish_nonlinear(
+    gp: GranularProblem,
+    fs: FluidStates,
+    state: GrainState,
+    extra: tuple[np.ndarray, np.ndarray] | None = None,
+) -> GrainState:
+    """The nonlinear fallback: groups that are not linear in ``u`` (a settling velocity)
+    join the objective and the floors, and a local SLSQP solve starts from the exact QP
+    optimum without them, at the QP's fluid state and moving-bed floor. Its objective is
+    always the full one (the QP's point when the local solve does not improve it)."""
+    from scipy.optimize import minimize
+
+    from compromise.physics.materials import get_material
+
+    case = gp.case
+    rho_s = get_material(state.material).density
+    p = fs.exact_p(state.temperature, state.pressure)[None]
+    c = gp.constants(p, rho_s)
+    h = (gp.h0 + c @ gp.Hc.T + p @ gp.P.T)[0]
+    if gp.floor_row is not None and state.critical_shields:
+        h[gp.floor_row] -= math.log(state.critical_shields)
+    e = (gp.e0 + c @ gp.Ec.T + p @ gp.Q.T)[0]
+    E = gp.E
+    if extra is not None:
+        E, e = np.vstack([E, extra[0]]), np.concatenate([e, extra[1]])
+    cA = c[0, gp.sel] if gp.sel.size else np.zeros(0)
+    total = sum(cd.weight for cd in case.conditions)
+    nl = [(n, case.groups[n]) for n in gp.nonlinear]
+
+    def lm(n: str, u: np.ndarray) -> float:
+        return float(gp.log_mismatch(n, u, p[0], rho_s))
+
+    def f(u: np.ndarray) -> float:
+        r = gp.A @ u + cA
+        val = float(gp.W @ r**2)
+        for n, g in nl:
+            if g.weight > 0 and not g.threshold:
+                val += g.weight * total * lm(n, u) ** 2
+        return val
+
+    def ineq(u: np.ndarray) -> np.ndarray:
+        out = [h - gp.G @ u]
+        for n, g in nl:
+            proto = gp.proto_values[n]
+            if g.min is not None:
+                out.append(np.array([lm(n, u) - math.log(g.min / float(np.min(proto)))]))
+            if g.max is not None:
+                out.append(np.array([math.log(g.max / float(np.max(proto))) - lm(n, u)]))
+        return np.concatenate(out)
+
+    cons = [{"type": "ineq", "fun": ineq}]
+    if E.shape[0]:
+        cons.append({"type": "eq", "fun": lambda u: E @ u - e})
+    start = f(state.u)
+    try:
+        res = minimize(
+            f, state.u, method="SLSQP", constraints=cons, options={"ftol": 1e-15, "maxiter": 400}
+        )
+        u = np.asarray(res.x, dtype=float)
+        ok = (
+            np.all(np.isfinite(u))
+            and np.all(ineq(u) >= -1e-9)
+            and (not E.shape[0] or np.all(np.abs(E @ u - e) <= 1e-9))
+            and f(u) <= start
+        )
+    except (ValueError, FloatingPointError):  # pragma: no cover - a failed local solve
+        ok = False
+    if not ok or not np.all(ineq(state.u) >= -1e-9):
+        feasible = bool(np.all(ineq(state.u) >= -1e-9))
+        return dataclasses.replace(state, objective=start if feasible else math.inf)
+    return dataclasses.replace(state, u=u, objective=f(u))

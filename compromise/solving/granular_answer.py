@@ -20,6 +20,7 @@ from compromise.solving.granular import (
     GrainState,
     GranularProblem,
     all_grain_states,
+    polish_nonlinear,
 )
 from compromise.solving.grid import N_TEMPERATURES
 from compromise.solving.result import (
@@ -48,6 +49,25 @@ def pick(states: GrainStates, case: Case) -> GrainState | None:
     return min(best, key=lambda s: (case.model.fluids.index(s.fluid), mats.index(s.material)))
 
 
+def polished(
+    gp: GranularProblem,
+    states: GrainStates,
+    extra: tuple[np.ndarray, np.ndarray] | None = None,
+) -> GrainStates:
+    """The states with the nonlinear groups' polish (:func:`~compromise.solving.granular.
+    polish_nonlinear`); unchanged when every group is linear in the decisions."""
+    if not gp.nonlinear:
+        return states
+    from compromise.solving.grid import FluidStates
+
+    fss = {f: FluidStates(gp.case, f, gp.used) for f in gp.case.model.fluids}
+    out: GrainStates = {}
+    for k, st in states.items():
+        st = None if st is None else polish_nonlinear(gp, fss[k[0]], st, extra)
+        out[k] = st if st is not None and math.isfinite(st.objective) else None
+    return out
+
+
 def design_of_grain(gp: GranularProblem, s: GrainState) -> Design:
     x, z, v, w = (math.exp(float(a)) for a in s.u)
     return Design(s.fluid, s.temperature, s.pressure, x, z, v, s.material, gp.d0 * w)
@@ -60,7 +80,7 @@ def granular_optimum(
     find_optimum`, which hands such cases here)."""
     gp = GranularProblem(case)
     engine = GrainEngine(gp)
-    states = all_grain_states(engine, case, n_temperatures=n_temperatures)
+    states = polished(gp, all_grain_states(engine, case, n_temperatures=n_temperatures))
     best = pick(states, case)
     if best is None:
         alts = _alternatives(case, gp, states, None, n_temperatures) if alternatives else ()
@@ -71,7 +91,11 @@ def granular_optimum(
     design = design_of_grain(gp, best)
     evaluation = evaluate_design(case, design)
     floors = {k: s.critical_shields for k, s in states.items() if s and s.critical_shields}
-    binding = _binding_costs(case, gp, engine, best, floors, n_temperatures) if alternatives else {}
+    binding = (
+        _binding_costs(case, gp, engine, best, floors, n_temperatures)
+        if alternatives and not gp.nonlinear  # multipliers of the QP would not be the answer's
+        else {}
+    )
     alts = _alternatives(case, gp, states, best, n_temperatures) if alternatives else ()
     account = sediment_account(case, gp, best, design, evaluation)
     return Solution(
@@ -223,6 +247,13 @@ def sediment_account(
         "exact: convex QP over the length, velocity and grain-size log-ratios, per fluid "
         "state and material"
     )
+    if gp.nonlinear:
+        path = (
+            f"nonlinear: {', '.join(gp.nonlinear)} not a power product (the settling velocity, "
+            "Ferguson & Church 2004, depends on the grain nonlinearly); a local SLSQP solve "
+            "from the exact QP optimum without it, per fluid and material, at the QP's fluid "
+            "state"
+        )
     if gp.floor_row is not None:
         if best.rounds > 0:
             path += (
@@ -342,9 +373,9 @@ def _alternatives(
     if case.model.preferred_ratios:
         engine = GrainEngine(gp, extra_E=np.array([[1.0, 0.0, 0.0, 0.0]]))
         for r in case.model.preferred_ratios:
-            found = all_grain_states(
-                engine, case, n_temperatures=n_temperatures, extra_e=np.array([math.log(r)])
-            )
+            fixed = np.array([math.log(r)])
+            found = all_grain_states(engine, case, n_temperatures=n_temperatures, extra_e=fixed)
+            found = polished(gp, found, (engine.extra, fixed))
             s = pick(found, case)
             a = alt("ratio", format_ratio(r), s)
             if s is None:

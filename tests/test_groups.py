@@ -158,11 +158,11 @@ def test_rouse_number_von_karman_0_4_rouse1937() -> None:
 
 
 def test_builtin_groups_power_products_except_shields() -> None:
-    # the '- 1' of Shields' submerged relative density makes it a non-product expression, and
-    # so do the sums of pressures of the cavitation index
+    # the '- 1' of the submerged relative density (Shields, stability number) and the sums of
+    # pressures of the cavitation index make non-product expressions
     for name, group in BUILTIN_GROUPS.items():
         result = power_product(parse(group.expression))
-        assert (result is None) == (name in ("shields", "cavitation")), name
+        assert (result is None) == (name in ("shields", "stability_number", "cavitation")), name
 
 
 def test_froude_exponents_and_length_substitution_white2011() -> None:

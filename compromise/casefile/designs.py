@@ -39,6 +39,10 @@ class DesignSpec:
         group).
     label : str
         How the user named it (the spec text or the file name).
+    material : str or None
+        Model granular material (a case with ``[sediment]``; None: the least-mismatch one).
+    grain_size : float or None
+        Model grain size [m] (None: the least-mismatch one).
     """
 
     ratio: float
@@ -49,6 +53,8 @@ class DesignSpec:
     pressure: float | None = None
     velocity: str | float | None = None
     label: str = ""
+    material: str | None = None
+    grain_size: float | None = None
 
 
 def _temperature(text: str, key: str) -> float:
@@ -148,7 +154,14 @@ def load_design_file(path: str | Path) -> DesignSpec:
     fluid = design.get("fluid")
     if not isinstance(fluid, str) or not fluid:
         raise CaseError(f"expected a fluid name, got {fluid!r}", file=shown, key="design.fluid")
+    material = design.get("material")
+    if material is not None and not isinstance(material, str):
+        raise CaseError(
+            f"expected a material name, got {material!r}", file=shown, key="design.material"
+        )
     return DesignSpec(
+        material=material,
+        grain_size=number("grain_size") if material is not None else None,
         ratio=number("horizontal_ratio"),
         vertical=number("vertical_ratio"),
         fluid=fluid,

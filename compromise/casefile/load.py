@@ -38,6 +38,7 @@ from compromise.casefile.model import (
     Quantity,
 )
 from compromise.casefile.physics_checks import check_physics
+from compromise.casefile.sediment import check_sediment, sediment_density_entry
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
 from compromise.physics.groups import STATE_DIMENSIONS
@@ -171,6 +172,8 @@ def case_from_dict(
     # quantities --------------------------------------------------------------------------
     quantities: dict[str, Quantity] = {}
     qdata = L.table(proto.get("quantities", {}), "prototype.quantities")
+    if "sediment" in data:  # the prototype material's density, unless the case gives one
+        qdata = {**qdata, **sediment_density_entry(L, data["sediment"], qdata)}
     if not qdata:
         L.error("prototype.quantities", "expected at least one characteristic quantity")
     for name, entry in qdata.items():
@@ -280,6 +283,7 @@ def case_from_dict(
     facility = check_facility(L, data.get("facility"))
     check_facility_needs(L, facility, phenomena)
     groups = {**groups, **facility_bounds(facility, phenomena)}
+    sediment = check_sediment(L, data.get("sediment"), quantities, groups)
     case = Case(
         phenomena=phenomena,
         path=path,
@@ -297,6 +301,7 @@ def case_from_dict(
         display_units=display_units,
         instruments=instruments,
         facility=facility,
+        sediment=sediment,
     )
     # what the solver would refuse (group values, fluid properties), in the same pass
     check_physics(

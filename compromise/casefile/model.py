@@ -33,7 +33,9 @@ TOP_KEYS = (
     "display_units",
     "instruments",
     "facility",
+    "sediment",
 )
+SEDIMENT_KEYS = ("materials", "grain_size", "material", "grain", "density", "moving_bed")
 DISPLAY_UNITS = ("si", "us")
 PROTOTYPE_KEYS = ("fluid", "temperature", "pressure", "quantities")
 QUANTITY_KEYS = ("value", "axis", "scales_as", "description")
@@ -201,6 +203,34 @@ class ModelChoices:
 
 
 @dataclass(frozen=True)
+class Sediment:
+    """The granular material of a movable bed or an armour layer (``[sediment]``).
+
+    Attributes
+    ----------
+    materials : tuple of str
+        Catalogue names of the model materials the solver may choose (like the model fluids).
+    grain_size : (float, float)
+        Range of the model grain size [m]; the lower bound defaults to the cohesion limit.
+    material : str or None
+        The prototype's material (catalogue name), when its density comes from the catalogue.
+    grain : str
+        The quantity holding the prototype grain size (d50, or Dn50 of armour).
+    density : str
+        The quantity holding the grain density (the prototype's; the model's is the material's).
+    moving_bed : bool
+        Whether the model bed must move: model Shields at or above its critical value.
+    """
+
+    materials: tuple[str, ...]
+    grain_size: tuple[float, float]
+    material: str | None
+    grain: str = "grain_size"
+    density: str = "grain_density"
+    moving_bed: bool = False
+
+
+@dataclass(frozen=True)
 class Case:
     """A loaded, checked case in SI units (see ``docs/case-format.md``)."""
 
@@ -227,6 +257,8 @@ class Case:
     instruments: tuple[Instrument, ...] = ()
     #: the laboratory facility (``[facility]``): test section, tank depth and width
     facility: Facility = field(default_factory=Facility)
+    #: the granular material the solver chooses (``[sediment]``), or None
+    sediment: Sediment | None = None
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""

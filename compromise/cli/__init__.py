@@ -20,7 +20,14 @@ if "numpy" not in sys.modules:
     for _var in ("OPENBLAS_NUM_THREADS", "OMP_NUM_THREADS", "MKL_NUM_THREADS"):
         os.environ.setdefault(_var, "1")
 
-from compromise.cli import core, data, explore, report, review  # noqa: F401  (registers the commands)
+from compromise.cli import (  # noqa: F401  (registers the commands)
+    core,
+    data,
+    explore,
+    materials,
+    report,
+    review,
+)
 from compromise.cli.common import app
 
 __all__ = ["app", "main"]

@@ -107,7 +107,9 @@ def map_(
             help="Two decision variables among horizontal_ratio, "
             "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
             "horizontal_ratio distortion (default: those two when the case allows "
-            "distortion, else horizontal_ratio and temperature).",
+            "distortion, else horizontal_ratio and temperature). A case with "
+            "[sediment] maps grain_size against a ratio (default horizontal_ratio "
+            "grain_size).",
             show_default=False,
         ),
     ] = None,

@@ -37,6 +37,7 @@ MAP_AXES: dict[str, tuple[str, str]] = {
     "distortion": ("distortion Y / X", "-"),
     "velocity_ratio": ("velocity ratio V (model / prototype)", "-"),
     "temperature": ("model fluid temperature", "degC"),
+    "grain_size": ("model grain size d", "mm"),
 }
 _NORMALS = {
     "horizontal_ratio": np.array([1.0, 0.0, 0.0]),
@@ -135,6 +136,8 @@ class DesignMap:
     def grid(self, which: int) -> np.ndarray:
         """Grid values of an axis in the map's units (temperatures in degC)."""
         g = self.x if which == 0 else self.y
+        if self.axes[which] == "grain_size":
+            return g * 1e3
         return g - 273.15 if self.axes[which] == "temperature" else g
 
     def to_dict(self) -> dict[str, Any]:
@@ -182,13 +185,17 @@ def _coordinate(design: Design, axis: str) -> float:
         return design.temperature - 273.15
     if axis == "distortion":
         return design.distortion
+    if axis == "grain_size":
+        return float(design.grain_size or math.nan) * 1e3
     return float(getattr(design, axis))
 
 
 def default_axes(case: Case) -> tuple[str, str]:
     """``horizontal_ratio`` and ``distortion`` when the case allows distortion, else
     ``horizontal_ratio`` and ``temperature`` (``velocity_ratio`` when the temperature is
-    fixed too)."""
+    fixed too); ``horizontal_ratio`` and ``grain_size`` in a case with ``[sediment]``."""
+    if case.sediment is not None:
+        return "horizontal_ratio", "grain_size"
     if case.model.distortion[1] > case.model.distortion[0]:
         return "horizontal_ratio", "distortion"
     if case.model.temperature[1] > case.model.temperature[0]:
@@ -292,6 +299,20 @@ def design_map(
         raise CaseError(
             f"expected two different axes among {', '.join(MAP_AXES)}, got "
             f"{', '.join(axes) or 'none'}",
+            key="--axes",
+        )
+    if case.sediment is not None:
+        from compromise.explore.granular_map import granular_map
+
+        return DesignMap(
+            **granular_map(
+                case, axes, fluid=fluid, resolution=resolution, n_temperatures=n_temperatures
+            )
+        )
+    if "grain_size" in axes:
+        raise CaseError(
+            "the grain-size axis needs a case with [sediment]",
+            file=case.path,
             key="--axes",
         )
     problem = build_problem(case)

@@ -259,6 +259,22 @@ BUILTIN_GROUPS: dict[str, GroupDefinition] = {
             ),
         ),
         GroupDefinition(
+            name="stability_number",
+            symbol="Ns",
+            expression="L / ((grain_density / rho - 1) * grain_size)",
+            forces="wave load / submerged weight of an armour unit",
+            meaning="Hs / (Delta Dn50) with L the design wave height and grain_size the nominal "
+            "diameter Dn50; a rubble-mound model keeps it, so a fresh-water basin of a seawater "
+            "prototype corrects the stone size or density for the relative density.",
+            references=(
+                "Van der Meer, J. W. (1988). Rock slopes and gravel beaches under wave attack. "
+                "PhD thesis, Delft University of Technology (from memory).",
+                "Hudson, R. Y. (1959). Laboratory investigation of rubble-mound breakwaters. "
+                "Journal of the Waterways and Harbors Division, ASCE 85(WW3), 93-121 "
+                "(from memory).",
+            ),
+        ),
+        GroupDefinition(
             name="cavitation",
             symbol="sigma_c",
             expression="(p_ambient + rho * g * L - p_vapour) / (0.5 * rho * velocity**2)",

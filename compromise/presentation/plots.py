@@ -196,6 +196,18 @@ def _distortion_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
     axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
 
 
+def _grain_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
+    from matplotlib.ticker import FixedLocator, FuncFormatter, NullLocator
+
+    axis = ax.xaxis if which == "x" else ax.yaxis
+    (ax.set_xscale if which == "x" else ax.set_yscale)("log")
+    steps = (0.05, 0.1, 0.2, 0.5, 1, 2, 5, 10, 20, 50, 100, 200, 500)
+    ticks = [t for t in steps if lo - 1e-9 <= t <= hi + 1e-9]
+    axis.set_major_locator(FixedLocator(ticks if len(ticks) >= 2 else [lo, hi]))
+    axis.set_minor_locator(NullLocator())
+    axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
+
+
 def _unit_coords(dmap: DesignMap, x: np.ndarray, y: np.ndarray) -> np.ndarray:
     """Points of the map in [0, 1]^2 (log axes for ratios), for placing labels."""
     out = []
@@ -243,6 +255,8 @@ def map_figure(dmap: DesignMap) -> Figure:
             _ratio_axis(ax, which, float(g[0]), float(g[-1]))
         elif axis_name == "distortion":
             _distortion_axis(ax, which, float(g[0]), float(g[-1]))
+        elif axis_name == "grain_size":  # millimetres, on a log axis
+            _grain_axis(ax, which, float(g[0]), float(g[-1]))
     ax.set_xlim(X[0], X[-1])
     ax.set_ylim(Y[0], Y[-1])
     ax.add_patch(

@@ -103,7 +103,35 @@ def design_section(doc: Doc, data: ReportData, rep: dict[str, Any], system: str)
         ["distortion", fmt(d["distortion"]), "-"],
         ["velocity ratio", format_ratio(d["velocity_ratio"]), "-"],
     ]
+    if d.get("material") is not None:  # a case with [sediment]
+        rows += [
+            ["model material", d["material"], "-"],
+            ["model grain size", fmt(d["grain_size"] * 1e3), "mm"],
+        ]
     b.append(doc.table("The design (ratios model over prototype).", ["", "value", "unit"], rows))
+    sed = rep.get("sediment")
+    if sed:
+        morph = sed.get("morphological_time_ratio")
+        grows = [
+            ["grain size ratio", format_ratio(sed["grain_size_ratio"]), "-"],
+            *(
+                [f"{name} (prototype / model)", f"{fmt(v['prototype'])} / {fmt(v['model'])}", "-"]
+                for name, v in (
+                    ("relative density R", sed["relative_density"]),
+                    ("Shields", sed["shields"]),
+                    ("critical Shields (Soulsby & Whitehouse 1997)", sed["critical_shields"]),
+                )
+                if v is not None
+            ),
+            ["hydraulic time ratio X / V", format_ratio(sed["hydraulic_time_ratio"]), "-"],
+            [
+                "morphological time ratio",
+                format_ratio(morph) if morph is not None else "- (no moving bed)",
+                "-",
+            ],
+            ["how it was found", sed["path"], "-"],
+        ]
+        b.append(doc.table("The granular material.", ["", "value", "unit"], grows))
     if data.scales:
         sc = data.scales
         srows = [

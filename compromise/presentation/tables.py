@@ -192,6 +192,10 @@ def account_lines(data: dict[str, Any]) -> list[str]:
             ]
     else:
         out += ["", "Groups:", groups_table(data["groups"])]
+    if data.get("sediment"):
+        from compromise.presentation.text import sediment_lines
+
+        out += sediment_lines(data["sediment"])
     out += [
         "",
         "Limits (worst condition):",

@@ -80,6 +80,38 @@ def design_lines(d: dict[str, Any]) -> list[str]:
         f"  distortion         {fmt(d['distortion'])}",
         f"  velocity ratio     {format_ratio(d['velocity_ratio'])}  ({fmt(d['velocity_ratio'])})",
     ]
+    if d.get("material") is not None:  # a case with [sediment]
+        lines += [
+            f"  model material     {d['material']}",
+            f"  model grain size   {fmt(d['grain_size'] * 1e3)} mm",
+        ]
+    return lines
+
+
+def sediment_lines(s: dict[str, Any]) -> list[str]:
+    """The granular account of an answer (a case with ``[sediment]``)."""
+
+    def pair(name: str, v: dict[str, float] | None) -> list[str]:
+        if v is None:
+            return []
+        return [f"  {name:<26} prototype {fmt(v['prototype'])}, model {fmt(v['model'])}"]
+
+    morph = s.get("morphological_time_ratio")
+    no_bed = "- (no moving bed: no Shields group, or a bed at rest)"
+    lines = [
+        "",
+        "Granular material:",
+        f"  {'material':<26} {s['material']}, grain size {fmt(s['grain_size'] * 1e3)} mm "
+        f"(prototype {fmt(s['prototype_grain_size'] * 1e3)} mm, ratio "
+        f"{format_ratio(s['grain_size_ratio'])})",
+        *pair("relative density R", s["relative_density"]),
+        *pair("Shields", s["shields"]),
+        *pair("critical Shields (S&W 1997)", s["critical_shields"]),
+        f"  {'hydraulic time ratio':<26} {format_ratio(s['hydraulic_time_ratio'])}",
+        f"  {'morphological time ratio':<26} "
+        + (format_ratio(morph) if morph is not None else no_bed),
+        f"  {'path':<26} {s['path']}",
+    ]
     return lines
 
 

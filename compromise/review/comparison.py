@@ -117,6 +117,11 @@ def compare(case: Case, reviews: list[DesignReview]) -> Comparison:
         ComparisonRow("design", "distortion", "-", tuple(d.distortion for d in ds)),
         ComparisonRow("design", "velocity_ratio", "-", tuple(d.velocity_ratio for d in ds)),
     ]
+    if any(d.material is not None for d in ds):  # a case with [sediment]
+        rows += [
+            ComparisonRow("design", "material", "-", tuple(d.material or "-" for d in ds)),
+            ComparisonRow("design", "grain_size", "m", tuple(d.grain_size for d in ds)),
+        ]
     objs = [r.objective for r in reviews]
     holding = [o if r.holds else None for o, r in zip(objs, reviews, strict=True)]
     rows.append(

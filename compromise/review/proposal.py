@@ -11,6 +11,7 @@ objectives, their ratio, and the groups and limits that make the difference, lar
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 from typing import Any
@@ -255,6 +256,19 @@ def design_from_spec(case: Case, spec: DesignSpec) -> tuple[Design, tuple[str, .
     )
     if velocity is None or isinstance(velocity, str):
         notes.append(f"velocity ratio {format_ratio(design.velocity_ratio)}: {rule}")
+    if case.sediment is not None:
+        material, grain = spec.material, spec.grain_size
+        if material is None or grain is None:
+            from compromise.solving.granular import grain_for_ratios
+
+            material, grain, _ = grain_for_ratios(
+                case, design.fluid, design.temperature, design.pressure, design.logs
+            )
+            notes.append(
+                f"model material {material}, grain size {grain * 1e3:.4g} mm: the least "
+                "weighted mismatch for these ratios and this fluid"
+            )
+        design = dataclasses.replace(design, material=material, grain_size=grain)
     return design, tuple(notes)
 
 

@@ -37,6 +37,10 @@ class Design:
         Model fluid pressure [Pa].
     horizontal_ratio, vertical_ratio, velocity_ratio : float
         Base ratios [-].
+    material : str or None
+        Model granular material (catalogue name), in a case with ``[sediment]``.
+    grain_size : float or None
+        Model grain size [m], in a case with ``[sediment]``.
     """
 
     fluid: str
@@ -45,6 +49,8 @@ class Design:
     horizontal_ratio: float
     vertical_ratio: float
     velocity_ratio: float
+    material: str | None = None
+    grain_size: float | None = None
 
     @property
     def distortion(self) -> float:
@@ -57,8 +63,9 @@ class Design:
         return np.log([self.horizontal_ratio, self.vertical_ratio, self.velocity_ratio])
 
     def to_dict(self) -> dict[str, Any]:
-        """Plain data: ratios, temperature in degC, pressure in Pa."""
-        return {
+        """Plain data: ratios, temperature in degC, pressure in Pa (and the model material
+        and grain size [m] in a case with ``[sediment]``)."""
+        out: dict[str, Any] = {
             "fluid": self.fluid,
             "temperature": to_celsius(self.temperature),
             "pressure": self.pressure,
@@ -67,13 +74,20 @@ class Design:
             "velocity_ratio": self.velocity_ratio,
             "distortion": self.distortion,
         }
+        if self.material is not None:
+            out["material"] = self.material
+            out["grain_size"] = self.grain_size
+        return out
 
     def label(self) -> str:
         """Short text such as ``water 20.0 degC, 1:50 / 1:10``."""
         ratios = format_ratio(self.horizontal_ratio)
         if abs(self.distortion - 1) > 1e-9:
             ratios += f" / {format_ratio(self.vertical_ratio)}"
-        return f"{self.fluid} {to_celsius(self.temperature):.1f} degC, {ratios}"
+        text = f"{self.fluid} {to_celsius(self.temperature):.1f} degC, {ratios}"
+        if self.material is not None and self.grain_size is not None:
+            text += f", {self.material} {self.grain_size * 1e3:.3g} mm"
+        return text
 
 
 @dataclass(frozen=True)
@@ -260,12 +274,15 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
     )
     p = _log_ratios(model_props, proto_props)
     constructed = matched_by_construction(case)
+    granular = granular_model_values(case, design)
     results = []
     for i, cond in enumerate(case.conditions):
         vals = case.values(i)
         quantities: dict[str, QuantityValue] = {}
         for name, q in case.quantities.items():
             lr = scaled_log_ratio(q.scaling, y, p)
+            if name in granular:
+                lr = math.log(granular[name] / vals[name])
             quantities[name] = QuantityValue(
                 vals[name], vals[name] * math.exp(lr), math.exp(lr), q.unit
             )
@@ -302,6 +319,41 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
         results.append(ConditionResult(cond.name, cond.weight, groups, quantities, limits))
     ratios = {n: math.exp(v) for n, v in zip(PROPERTY_NAMES, p, strict=True) if math.isfinite(v)}
     return Evaluation(design, tuple(results), ratios)
+
+
+def granular_model_values(case: Case, design: Design) -> dict[str, float]:
+    """Model values of the quantities the granular material fixes [SI]: the grain size (the
+    design's) and the grain density (the model material's); empty without ``[sediment]``."""
+    sed = case.sediment
+    if sed is None:
+        return {}
+    if design.material is None or design.grain_size is None:
+        from compromise.errors import CaseError
+
+        raise CaseError(
+            "a design of a case with [sediment] needs its model material and grain size; "
+            "this command does not yet take them ('compromise solve' chooses them)",
+            file=case.path,
+            key="sediment",
+        )
+    from compromise.physics.materials import get_material
+
+    rho_s = get_material(design.material).density
+    out = {sed.grain: design.grain_size, sed.density: rho_s}
+    if "settling_velocity" in case.quantities:
+        # the model grain's settling velocity: the prototype's value times the ratio of the
+        # Ferguson & Church (2004) formula (C1 = 18, C2 = 1) at the model and prototype grains
+        from compromise.physics.sediment import settling_velocity_ferguson_church as fc
+
+        proto, model = property_environments(
+            case, design.fluid, design.temperature, design.pressure
+        )
+        vals = case.values(0)
+        ratio = fc(design.grain_size, rho_s / model["rho"] - 1.0, model["nu"]) / fc(
+            vals[sed.grain], vals[sed.density] / proto["rho"] - 1.0, proto["nu"]
+        )
+        out["settling_velocity"] = vals["settling_velocity"] * float(ratio)
+    return out
 
 
 def matched_by_construction(case: Case) -> frozenset[str]:

@@ -67,6 +67,10 @@ def find_optimum(
     -------
     Solution
     """
+    if case.sediment is not None:  # the material and grain size are decisions too
+        from compromise.solving.granular_answer import granular_optimum
+
+        return granular_optimum(case, n_temperatures=n_temperatures, alternatives=alternatives)
     problem = build_problem(case)
     if problem.nonlinear_groups:
         return solve_nonlinear(

@@ -163,6 +163,15 @@ def build_problem(case: Case) -> Problem:
     limit differ between conditions only by their right-hand side, only the tightest condition
     is kept (and remembered, so the report can say which condition makes a limit bind).
     """
+    if case.sediment is not None:
+        # the grain size and material are decisions only the granular solve knows
+        # (compromise.solving.granular); a three-ratio problem would ignore them
+        raise CaseError(
+            "this command does not yet treat the model material and grain size as decisions; "
+            "'compromise solve' does",
+            file=case.path,
+            key="sediment",
+        )
     m = case.model
     nd = N_DECISION
     gv = prototype_group_values(case)

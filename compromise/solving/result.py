@@ -175,11 +175,13 @@ def order_alternatives(
 
     fluids = list(case.model.fluids)
     ratios = [format_ratio(r) for r in case.model.preferred_ratios]
+    materials = list(case.sediment.materials) if case.sediment is not None else []
+    kinds = {"fluid": (0, fluids), "material": (1, materials)}
 
     def preference(a: Alternative) -> tuple[int, int, str]:
-        names = fluids if a.kind == "fluid" else ratios
+        order, names = kinds.get(a.kind, (2, ratios))
         rank = names.index(a.label) if a.label in names else len(names)
-        return (0 if a.kind == "fluid" else 1, rank, a.label)
+        return (order, rank, a.label)
 
     items = sorted(alternatives, key=lambda a: (a.objective, preference(a)))
     finite = [a for a in items if math.isfinite(a.objective)]
@@ -193,6 +195,64 @@ def order_alternatives(
         i = j
     out += sorted((a for a in items if not math.isfinite(a.objective)), key=preference)
     return tuple(dataclasses.replace(a, tied=tied(a.objective, best)) for a in out)
+
+
+@dataclass(frozen=True)
+class SedimentAnswer:
+    """The granular material of the answer (a case with ``[sediment]``).
+
+    Attributes
+    ----------
+    material : str
+        The chosen model material (catalogue name).
+    grain_size : float
+        Model grain size [m].
+    prototype_grain_size : float
+        Prototype grain size [m] (the first condition's).
+    relative_density : tuple of float
+        ``R = rho_s / rho - 1`` of the prototype and of the model grains [-].
+    shields : tuple of float or None
+        Prototype and model Shields values [-] (a case with a ``shields`` group).
+    critical_shields : tuple of float or None
+        Critical Shields values of the prototype and model grains (Soulsby & Whitehouse
+        1997) [-].
+    hydraulic_time_ratio : float
+        ``X / V`` [-].
+    morphological_time_ratio : float or None
+        Bed-change time ratio from Meyer-Peter & Mueller transport and the Exner equation
+        [-]; None where a bed does not move.
+    path : str
+        How the answer was found (exact QP, rounds of the Shields floor).
+    """
+
+    material: str
+    grain_size: float
+    prototype_grain_size: float
+    relative_density: tuple[float, float]
+    shields: tuple[float, float] | None
+    critical_shields: tuple[float, float] | None
+    hydraulic_time_ratio: float
+    morphological_time_ratio: float | None
+    path: str
+
+    def to_dict(self) -> dict[str, Any]:
+        """Plain data (SI)."""
+
+        def pair(v: tuple[float, float] | None) -> dict[str, float] | None:
+            return None if v is None else {"prototype": v[0], "model": v[1]}
+
+        return {
+            "material": self.material,
+            "grain_size": self.grain_size,
+            "prototype_grain_size": self.prototype_grain_size,
+            "grain_size_ratio": self.grain_size / self.prototype_grain_size,
+            "relative_density": pair(self.relative_density),
+            "shields": pair(self.shields),
+            "critical_shields": pair(self.critical_shields),
+            "hydraulic_time_ratio": self.hydraulic_time_ratio,
+            "morphological_time_ratio": self.morphological_time_ratio,
+            "path": self.path,
+        }
 
 
 @dataclass(frozen=True)
@@ -222,6 +282,8 @@ class Solution:
     binding: dict[str, BindingCost]
     alternatives: tuple[Alternative, ...]
     conflict: Conflict | None = None
+    #: the granular material's account (a case with ``[sediment]``), or None
+    sediment: SedimentAnswer | None = None
 
     def __post_init__(self) -> None:
         # every solve path reports alternatives in one order (ties in the case's order) and
@@ -261,6 +323,8 @@ class Solution:
         out["quantities"] = {k: v.to_dict() for k, v in first.quantities.items()}
         out["binding"] = {k: v.to_dict() for k, v in self.binding.items()}
         out["alternatives"] = [a.to_dict() for a in self.alternatives]
+        if self.sediment is not None:
+            out["sediment"] = self.sediment.to_dict()
         if len(ev.conditions) > 1:
             conditions = {c.name: c.to_dict() for c in ev.conditions}
             for c in conditions.values():

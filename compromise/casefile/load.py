@@ -37,6 +37,7 @@ from compromise.casefile.model import (
     Quantity,
 )
 from compromise.casefile.physics_checks import check_physics
+from compromise.casefile.resistance import check_resistance
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
 
@@ -269,6 +270,7 @@ def case_from_dict(
     # phenomena (checked with the rest, so every problem of the file is reported in one pass)
     phenomena = check_phenomena(L, data.get("phenomena", []), quantities)
     instruments = check_instruments(L, data.get("instruments", {}), quantities)
+    resistance = check_resistance(L, data["resistance"]) if "resistance" in data else None
     case = Case(
         phenomena=phenomena,
         path=path,
@@ -285,6 +287,7 @@ def case_from_dict(
         source_sha256=source_sha256 or canonical_sha256(data),
         display_units=display_units,
         instruments=instruments,
+        resistance=resistance,
     )
     # what the solver would refuse (group values, fluid properties), in the same pass
     check_physics(

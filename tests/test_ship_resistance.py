@@ -231,6 +231,11 @@ def test_bundled_ferry_runs_give_the_form_factor_they_were_made_with() -> None:
             {},
             r"fewer than three rows are at Froude numbers up to 0.2 .*\(0 are\)",
         ),
+        (
+            pd.DataFrame({"velocity [m/s]": [1e-6], "resistance [N]": [1.0]}),
+            {"form_factor": 0.1},
+            r"row 1: the model's Reynolds number 4.\d+ is below 1e\+05",
+        ),
     ],
 )
 def test_one_line_errors(frame: pd.DataFrame, resistance: dict[str, Any], match: str) -> None:
@@ -303,3 +308,15 @@ def test_declared_resistance_column_and_the_command(tmp_path: Path) -> None:
     case, design = _case_and_design(form_factor=0.1)
     conv = convert_table(case, design, frame, to="prototype", columns={"R_hull": "resistance"})
     assert conv.extrapolations[0].column == "R_hull [N]"
+
+
+def test_command_refuses_a_table_without_speed_in_one_line(tmp_path: Path) -> None:
+    """Common practice (the project's error convention): one line, exit status 2."""
+    table = tmp_path / "runs.csv"
+    table.write_text("run,resistance [N]\n1,30\n", encoding="utf-8")
+    res = CliRunner().invoke(
+        app, ["convert", str(CASE), "--input", str(table), "--to", "prototype"]
+    )
+    assert res.exit_code == 2
+    lines = res.output.strip().splitlines()
+    assert len(lines) == 1 and "needs the model's speed" in lines[0]

@@ -36,13 +36,16 @@ RESISTANCE_KEYS = (
 
 
 def _number(L: Loader, value: Any, key: str, low: float, high: float) -> float | None:
-    if isinstance(value, bool) or not isinstance(value, int | float) or not math.isfinite(value):
+    number = math.nan
+    if isinstance(value, int | float) and not isinstance(value, bool):
+        try:
+            number = float(value)
+        except OverflowError:  # an integer beyond any float
+            number = math.nan
+    if not low <= number <= high:  # also refuses NaN
         L.error(key, f"expected a number between {low:g} and {high:g}, got {show(value)}")
         return None
-    if not low <= float(value) <= high:
-        L.error(key, f"expected a number between {low:g} and {high:g}, got {show(value)}")
-        return None
-    return float(value)
+    return number
 
 
 def check_resistance(L: Loader, data: Any) -> ResistanceInputs | None:

@@ -13,7 +13,8 @@ log-ratios: the base ratios ``(X, Y, V)`` and the fluid-property ratios of the m
 its temperature over the prototype fluid at its own (:mod:`compromise.solving.design`). For a
 surrogate-fluid rig this is the chain of groups: the kept Reynolds number fixes ``V``, and a
 pressure carried by ``rho V^2`` is the Euler number kept; in a distorted model times follow
-``X / V`` and discharges ``X Y V``.
+``X / V`` and discharges ``X Y V``. A towed hull's resistance carried to the ship is the
+exception: it goes by the ITTC-1978 method (:mod:`compromise.review.resistance`), step by step.
 
 References
 ----------

@@ -43,6 +43,9 @@ from compromise.physics.ship import (
 )
 
 G = 9.80665  # [m/s^2] standard gravity
+#: Below this model Reynolds number the ITTC-1957 line is not used (the flow along a hull is
+#: not turbulent there; towing tanks work above about 2e6; common practice).
+MIN_REYNOLDS = 1e5
 #: Header names read as a towed hull's total resistance (lower case, spaces as ``_``).
 RESISTANCE_NAMES = ("resistance", "total_resistance", "drag", "r_t", "rt", "r_tm", "rtm")
 #: The steps written beside the resistance column, in order.
@@ -183,6 +186,14 @@ def extrapolate(
     fn = vm / np.sqrt(G * length_m)
     re_m = vm * length_m / nu_m
     re_s = vs * length_s / nu_s
+    low_re = np.flatnonzero(re_m < MIN_REYNOLDS)
+    if low_re.size:
+        raise CaseError(
+            f"row {int(low_re[0]) + 1}: the model's Reynolds number {re_m[low_re[0]]:.3g} is "
+            f"below {MIN_REYNOLDS:.0e}, where the ITTC-1957 line (a turbulent-flow line) does not "
+            "apply",
+            key=key,
+        )
     ittc = np.vectorize(lambda r: math.nan if math.isnan(r) else ittc_1957(r), otypes=[float])
     c_fm = ittc(re_m)
     c_fs = ittc(re_s)

@@ -259,12 +259,14 @@ def test_tide_and_sea_states_in_a_distorted_model() -> None:
 
 def test_towed_hull_resistance_is_not_silently_froude_scaled() -> None:
     """Common practice (ITTC 7.5-02-02-01, from memory): the frictional part of a hull's
-    resistance does not follow the force ratio; a plain conversion must say so."""
+    resistance does not follow the force ratio; a force the tool does not extrapolate (the
+    ITTC-1978 extrapolation of a resistance: tests/test_ship_resistance.py) must say so."""
     case = load_case(CASES / "towing_tank.toml")
     design, _ = design_from_spec(case, parse_design_spec("1:20@water,20degC"))
     frame = pd.DataFrame({"speed [kn]": [1.5], "resistance [N]": [30.0]})
-    conv = convert_table(case, design, frame, to="prototype")
-    assert any("ITTC-1978" in n and "resistance [N]" in n for n in conv.notes)
+    conv = convert_table(case, design, frame.rename(columns={"resistance [N]": "tow [N]"}),
+                         to="prototype", columns={"tow": "force"})  # fmt: skip
+    assert any("ITTC-1978" in n and "tow [N]" in n for n in conv.notes)
     river = convert_table(_river(), _froude(_river(), 1 / 25), frame, to="prototype")
     assert river.notes == ()
 

@@ -38,6 +38,7 @@ from compromise.casefile.model import (
     Quantity,
 )
 from compromise.casefile.physics_checks import check_physics
+from compromise.casefile.resistance import check_resistance
 from compromise.casefile.sediment import check_sediment, sediment_density_entry
 from compromise.errors import CaseError, CaseErrors, FluidRangeError, UnknownFluidError
 from compromise.physics.fluids import get_fluid
@@ -284,6 +285,7 @@ def case_from_dict(
     check_facility_needs(L, facility, phenomena)
     groups = {**groups, **facility_bounds(facility, phenomena)}
     sediment = check_sediment(L, data.get("sediment"), quantities, groups)
+    resistance = check_resistance(L, data["resistance"]) if "resistance" in data else None
     case = Case(
         phenomena=phenomena,
         path=path,
@@ -302,6 +304,7 @@ def case_from_dict(
         instruments=instruments,
         facility=facility,
         sediment=sediment,
+        resistance=resistance,
     )
     # what the solver would refuse (group values, fluid properties), in the same pass
     check_physics(

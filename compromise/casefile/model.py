@@ -34,6 +34,7 @@ TOP_KEYS = (
     "instruments",
     "facility",
     "sediment",
+    "resistance",
 )
 SEDIMENT_KEYS = ("materials", "grain_size", "material", "grain", "density", "moving_bed")
 DISPLAY_UNITS = ("si", "us")
@@ -190,6 +191,37 @@ class Facility:
 
 
 @dataclass(frozen=True)
+class ResistanceInputs:
+    """Inputs of the ITTC-1978 resistance extrapolation of a towed hull (``[resistance]``).
+
+    Attributes
+    ----------
+    wetted_surface : float
+        The ship's wetted surface S_S [m^2] (the model's is S_S X^2).
+    form_factor : float or None
+        k of the form factor (1 + k); None: a Prohaska fit of the low-speed rows.
+    prohaska_max_froude : float
+        Rows up to this Froude number enter the Prohaska fit [-].
+    roughness_allowance : str or float
+        ``"bowden-davison"``, ``"townsin"`` or a fixed dC_F [-].
+    hull_roughness : float
+        Mean apparent amplitude of the hull's roughness k_s [m].
+    correlation_allowance : float
+        C_A [-].
+    air_area : float or None
+        Transverse projected area of the ship above the waterline A_T [m^2] (air resistance).
+    """
+
+    wetted_surface: float
+    form_factor: float | None = None
+    prohaska_max_froude: float = 0.2
+    roughness_allowance: str | float = "bowden-davison"
+    hull_roughness: float = 150e-6
+    correlation_allowance: float = 0.0
+    air_area: float | None = None
+
+
+@dataclass(frozen=True)
 class ModelChoices:
     """The designer's choices and their bounds (ratios model/prototype, SI)."""
 
@@ -259,6 +291,8 @@ class Case:
     facility: Facility = field(default_factory=Facility)
     #: the granular material the solver chooses (``[sediment]``), or None
     sediment: Sediment | None = None
+    #: inputs of a towed hull's resistance extrapolation (``[resistance]``), for ``convert``
+    resistance: ResistanceInputs | None = None
 
     def values(self, condition: int | str = 0) -> dict[str, float]:
         """Prototype quantity values [SI] in one condition (by index or name)."""

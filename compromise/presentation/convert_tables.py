@@ -86,7 +86,7 @@ def format_conversion(data: dict[str, Any], design_source: str, sheet: dict | No
             c["kind"],
             c["recognised_by"],
             c["law"],
-            format_ratio(c["ratio"]) if c["kind"] != "keep" else "-",
+            format_ratio(c["ratio"]) if c["kind"] != "keep" and c["ratio"] is not None else "-",
             c["out_header"],
         ]
         for c in data["columns"]
@@ -97,12 +97,51 @@ def format_conversion(data: dict[str, Any], design_source: str, sheet: dict | No
             ["column", "kind", "recognised by", "law", "ratio", "written as"], rows
         ).splitlines()
     ]
+    for e in data.get("extrapolations", []):
+        lines += ["", *format_extrapolation(e)]
     for note in data.get("notes", []):
         lines += ["", f"Note: {note}"]
     if sheet is not None:
         lines += ["", *format_run_sheet(sheet).splitlines()]
     lines += ["", CAUTION]
     return "\n".join(lines)
+
+
+def format_extrapolation(e: dict[str, Any]) -> list[str]:
+    """The ITTC-1978 extrapolation of a towed hull's resistance: inputs and each row's steps."""
+    lines = [f"Ship resistance from {e['column']} by the ITTC-1978 method:"]
+    lines.append(
+        f"  model: L = {fmt(e['model_length'])} m, S = {fmt(e['model_wetted_surface'])} m^2; "
+        f"ship: L = {fmt(e['ship_length'])} m, S = {fmt(e['ship_wetted_surface'])} m^2"
+    )
+    if e["form_factor_source"] == "case":
+        lines.append(f"  form factor 1 + k = {1 + e['form_factor_k']:.4f} (from the case)")
+    else:
+        p = e["prohaska"]
+        lines.append(
+            f"  form factor 1 + k = {p['one_plus_k']:.4f} (Prohaska fit of rows "
+            f"{', '.join(map(str, p['rows']))}, Fn <= {fmt(p['max_froude'])}: "
+            f"C_TM/C_FM = (1 + k) + {fmt(p['slope'])} Fn^4/C_FM, rms residual "
+            f"{fmt(p['rms_residual'])})"
+        )
+    air = "" if e["air_area"] is None else f", air area {fmt(e['air_area'])} m^2"
+    lines.append(
+        f"  roughness allowance {e['roughness_allowance']}; correlation allowance C_A = "
+        f"{e['correlation_allowance']:g}{air}"
+    )
+    lines.append("  C_R = C_TM - (1 + k) C_FM;  C_TS = (1 + k) C_FS + dC_F + C_A + C_R + C_AAS")
+    steps = e["steps"]
+    names = [n for n in steps if n not in ("k", "C_A")]
+    rows = []
+    for i in range(len(steps["R_TS"])):
+        row: list[Any] = [i + 1]
+        for n in names:
+            v = steps[n][i]
+            row.append(None if v is None else (v / 1000 if n == "R_TS" else v))
+        rows.append(row)
+    head = ["row", *[("R_TS [kN]" if n == "R_TS" else n) for n in names]]
+    lines += ["  " + x for x in table(head, rows).splitlines()]
+    return lines
 
 
 def format_run_sheet(sheet: dict[str, Any]) -> str:

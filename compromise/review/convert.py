@@ -13,7 +13,8 @@ log-ratios: the base ratios ``(X, Y, V)`` and the fluid-property ratios of the m
 its temperature over the prototype fluid at its own (:mod:`compromise.solving.design`). For a
 surrogate-fluid rig this is the chain of groups: the kept Reynolds number fixes ``V``, and a
 pressure carried by ``rho V^2`` is the Euler number kept; in a distorted model times follow
-``X / V`` and discharges ``X Y V``.
+``X / V`` and discharges ``X Y V``. A towed hull's resistance carried to the ship is the
+exception: it goes by the ITTC-1978 method (:mod:`compromise.review.resistance`), step by step.
 
 References
 ----------
@@ -37,6 +38,7 @@ from compromise.casefile.model import Case, scaling_text
 from compromise.errors import CaseError
 from compromise.physics.scaling import PROPERTY_BASIS, friction_law
 from compromise.review.columns import KEEP, recognise, split_header, unit_factor
+from compromise.review.resistance import Extrapolation, extrapolate, is_resistance
 from compromise.solving.design import Design, property_environments, scaled_log_ratio
 from compromise.units import dimension_name, si_unit, to_celsius
 
@@ -95,7 +97,7 @@ class Column:
             "recognised_by": self.how,
             "unit": self.unit,
             "law": self.law,
-            "ratio": self.ratio,
+            "ratio": None if math.isnan(self.ratio) else self.ratio,
             "quantity": self.quantity,
             "out_header": self.out_header,
         }
@@ -140,12 +142,17 @@ class Conversion:
     chain: Chain
     #: what a reader must know about a column's law (a resistance carried by the force ratio)
     notes: tuple[str, ...] = ()
+    #: a towed hull's resistance carried by the ITTC-1978 method, one per resistance column
+    extrapolations: tuple[Extrapolation, ...] = ()
+    #: headers of the step columns written beside an extrapolated resistance
+    steps: tuple[str, ...] = ()
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data (the table as lists of values)."""
         return {
             "to": self.to,
             "notes": list(self.notes),
+            "extrapolations": [e.to_dict() for e in self.extrapolations],
             "chain": self.chain.to_dict(),
             "columns": [c.to_dict() for c in self.columns],
             "table": {
@@ -157,7 +164,7 @@ class Conversion:
         }
 
     def _numeric(self) -> set[str]:
-        return {c.out_header for c in self.columns if c.kind != KEEP}
+        return {c.out_header for c in self.columns if c.kind != KEEP} | set(self.steps)
 
 
 def _missing(v: Any) -> bool:
@@ -246,13 +253,17 @@ def convert_table(
     chain, p = chain_of(case, design)
     y = design.logs
     distorted = abs(design.distortion - 1) > 1e-12
+    ship = "ship_resistance" in case.phenomena or case.resistance is not None
     out: dict[str, Any] = {}
     cols: list[Column] = []
+    si_values: dict[str, np.ndarray] = {}
+    hulls: list[str] = []  # headers of resistance columns carried by the ITTC-1978 method
     for header in frame.columns:
         name, unit = split_header(str(header))
+        said = declared.get(name)
         kind, how, vector, dim, quantity = recognise(
-            case, str(header), declared=declared.get(name), distorted=distorted,
-            law=chain.friction_law,
+            case, str(header), declared="force" if said == "resistance" else said,
+            distorted=distorted, law=chain.friction_law,
         )  # fmt: skip
         if kind == KEEP:
             out[str(header)] = frame[header].to_list()
@@ -281,27 +292,109 @@ def convert_table(
         ratio = math.exp(scaled_log_ratio(vector, y, p))
         values = _numbers(frame[header], str(header))
         si = values * factor
+        si_values[str(header)] = si
         converted = si * ratio if to == "model" else si / ratio
         out_unit, out_factor = _output_unit(unit, factor, dim, units, str(header))
         out_header = f"{name} [{out_unit}]" if out_unit else name
         out[out_header] = converted / out_factor
+        law = scaling_text(vector)
+        hull = (
+            ship and tuple(dim) == (1, 1, -2, 0) and (said == "resistance" or is_resistance(name))
+        )
+        if hull and to == "prototype":
+            hulls.append(str(header))
+            law, ratio = "ITTC-1978", math.nan
+            out[out_header] = (out_header, out_factor)  # filled in below
         cols.append(
             Column(
                 str(header), name, kind, how, unit, tuple(dim),  # type: ignore[arg-type]
-                scaling_text(vector), ratio, quantity, out_header, vector,
+                law, ratio, quantity, out_header, vector,
             )
         )  # fmt: skip
+    extrapolations: list[Extrapolation] = []
+    steps: list[str] = []
+    if hulls:
+        out, extrapolations, steps = _extrapolate(case, design, chain, cols, si_values, out, hulls)
     result = pd.DataFrame(out, index=frame.index)
     notes = []
-    forces = [c.header for c in cols if c.kind != KEEP and c.dimension == (1, 1, -2, 0)]
-    if forces and "ship_resistance" in case.phenomena:
+    forces = [
+        c.header
+        for c in cols
+        if c.kind != KEEP and c.dimension == (1, 1, -2, 0) and c.header not in hulls
+    ]
+    if forces and ship:
         notes.append(
             f"{', '.join(forces)}: carried by the force ratio (rho_r V^2 X Y), right for the "
             "wave-making part only; the frictional part of a hull's resistance does not scale "
-            "so (the Reynolds number is not kept). Extrapolate a resistance with the ITTC-1978 "
-            "method (form factor, ITTC-1957 line, allowances), which this tool does not apply."
+            "so (the Reynolds number is not kept). A model's resistance goes to the ship by "
+            "the ITTC-1978 method with --to prototype, in a column named 'resistance' (or "
+            "declared with --column NAME=resistance) beside the model's speed."
         )
-    return Conversion(to, result, tuple(cols), chain, tuple(notes))
+    for e in extrapolations:
+        k_from = (
+            "the case ([resistance] form_factor)"
+            if e.form_factor_source == "case"
+            else f"a Prohaska fit of rows {', '.join(map(str, e.prohaska['rows']))}"  # type: ignore[index]
+        )
+        notes.append(
+            f"{e.column}: the model's resistance carried to the ship by the ITTC-1978 method "
+            f"(k = {e.form_factor:.4f} from {k_from}; ITTC-1957 line; roughness allowance "
+            f"{e.roughness_text()}; C_A = {e.inputs.correlation_allowance:g}"
+            + ("; air resistance 0.001 A_T / S_S" if e.inputs.air_area is not None else "")
+            + "), not by the force ratio; the steps are the columns after it, and the column "
+            "itself is R_TS."
+        )
+    return Conversion(
+        to, result, tuple(cols), chain, tuple(notes), tuple(extrapolations), tuple(steps)
+    )
+
+
+def _extrapolate(
+    case: Case,
+    design: Design,
+    chain: Chain,
+    cols: list[Column],
+    si_values: Mapping[str, np.ndarray],
+    out: dict[str, Any],
+    hulls: list[str],
+) -> tuple[dict[str, Any], list[Extrapolation], list[str]]:
+    """Fill each resistance column with R_TS and put its ITTC-1978 steps after it."""
+    speeds = [c for c in cols if c.dimension == (0, 1, -1, 0) and c.kind != KEEP]
+    if len(speeds) != 1:
+        found = ", ".join(repr(c.header) for c in speeds) or "none"
+        raise CaseError(
+            "the ITTC-1978 extrapolation needs the model's speed in one column of the table "
+            f"(e.g. 'velocity [m/s]'); velocity columns: {found}",
+            key=f"column {hulls[0]!r}",
+        )
+    speed = speeds[0]
+    extrapolations: list[Extrapolation] = []
+    steps: list[str] = []
+    new: dict[str, Any] = {}
+    for header, values in out.items():
+        if not (isinstance(values, tuple) and len(values) == 2 and isinstance(values[0], str)):
+            new[header] = values
+            continue
+        out_header, out_factor = values
+        source = next(c.header for c in cols if c.out_header == out_header)
+        e = extrapolate(
+            case, design, chain, si_values[speed.header], si_values[source],
+            column=source, velocity_column=speed.header,
+        )  # fmt: skip
+        extrapolations.append(e)
+        new[out_header] = e.steps["R_TS"] / out_factor
+        suffix = "" if len(hulls) == 1 else f" ({split_header(source)[0]})"
+        for name, step in e.steps.items():
+            if name == "R_TS":
+                continue
+            label = f"{name}{suffix}"
+            if label in new or label in out:
+                raise CaseError(
+                    f"the table already has a column {label!r}", key=f"column {source!r}"
+                )
+            new[label] = step
+            steps.append(label)
+    return new, extrapolations, steps
 
 
 def convert(

@@ -72,7 +72,7 @@ def test_front_figure_axes_legend_and_points(front: Front) -> None:
     ax = fig.axes[0]
     assert ax.get_xlabel() == "weighted mismatch [-]"
     assert ax.get_ylabel() == "model discharge (flood) [m^3/s]"
-    entries = _legend(ax)
+    entries = _legend(fig)
     n = len(front.points)
     assert f"water ({n} points)" in entries
     assert {"knee", "solver's design", "case limit: discharge <= 0.15 m^3/s"} <= set(entries)
@@ -82,23 +82,82 @@ def test_front_figure_axes_legend_and_points(front: Front) -> None:
     labels = _texts(ax)
     assert any(t.startswith("knee: water") for t in labels)
     assert any(t.startswith("chosen: water") for t in labels)
+    assert "case limit: discharge <= 0.15 m^3/s (lifted)" in labels  # on the line itself
     assert "Pareto front: total vs discharge" in fig.get_suptitle()
+    assert "may lie off this front" in ax.get_title(loc="left").replace("\n", " ")
 
 
-def test_front_figure_three_axes_draws_the_pairwise_projections(river: Case) -> None:
+def _callout_boxes(fig: Any) -> dict[str, Any]:
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    return {
+        t.get_text().split(":")[0]: t.get_bbox_patch().get_window_extent(r)
+        for t in fig.axes[0].texts
+        if t.get_text().startswith(("knee:", "chosen:"))
+    }
+
+
+@pytest.mark.parametrize(
+    ("case", "axes"),
+    [("river_bend", ["total", "discharge"]), ("towing_tank", ["reynolds", "length"])],
+)
+def test_front_callouts_never_overlap_each_other_nor_the_points(case: str, axes: list[str]) -> None:
+    """The knee's and the chosen design's callout boxes, from the artists' window extents:
+    disjoint, inside the axes, and covering no point of the front."""
+    f = trace_front(load_case(ROOT / "cases" / f"{case}.toml"), axes, points=40)
+    fig = front_figure(f)
+    boxes = _callout_boxes(fig)
+    assert set(boxes) == {"knee", "chosen"}
+    assert not boxes["knee"].overlaps(boxes["chosen"])
+    ax = fig.axes[0]
+    frame = ax.get_window_extent()
+    pts = ax.transData.transform(np.asarray(ax.collections[0].get_offsets()))
+    for box in boxes.values():
+        assert frame.x0 <= box.x0 and box.x1 <= frame.x1 and frame.y0 <= box.y0 <= frame.y1
+        assert not any(box.contains(x, y) for x, y in pts)
+
+
+def test_front_group_axes_in_percent_or_log(river: Case) -> None:
+    """A group's mismatch is shown as % off, 100 (exp|r| - 1); --mismatch log keeps |r|
+    (the definition of a log-ratio, common practice)."""
+    f = trace_front(river, ["reynolds", "discharge"], points=20)
+    fig = front_figure(f)
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "reynolds: model off the prototype by [%]"
+    shown = np.asarray(ax.collections[0].get_offsets())[:, 0]
+    np.testing.assert_allclose(shown, 100 * (np.exp(f.values[:, 0]) - 1), rtol=1e-12)
+    log = front_figure(f, "log").axes[0]
+    assert log.get_xlabel() == "reynolds mismatch |ln(model/prototype)| [-]"
+    np.testing.assert_allclose(np.asarray(log.collections[0].get_offsets())[:, 0], f.values[:, 0])
+
+
+def test_knee_only_where_the_front_bends() -> None:
+    """The knee (Das 1999: farthest from the line through the extremes) is marked only when it
+    stands 5 % of that line away; the spillway's total vs discharge front is nearly straight."""
+    f = trace_front(load_case(ROOT / "cases" / "spillway.toml"), ["total", "discharge"], points=30)
+    assert f.knee_depth < 0.05 and not f.has_knee
+    fig = front_figure(f)
+    assert "knee" not in _legend(fig)
+    assert not any(t.startswith("knee:") for t in _texts(fig.axes[0]))
+    assert "nearly straight" in fig.axes[0].get_title(loc="left")
+    assert "nearly straight" in format_front(f)
+
+
+def test_front_figure_three_axes_is_one_scatter_coloured_by_the_third(river: Case) -> None:
     front3 = trace_front(river, ["total", "reach", "discharge"], points=50)
     fig = front_figure(front3)
-    axs = fig.axes
-    assert len(axs) == 3
-    pairs = [(a.get_xlabel(), a.get_ylabel()) for a in axs]
-    assert pairs == [
-        ("weighted mismatch [-]", "model reach [m]"),
-        ("weighted mismatch [-]", "model discharge (flood) [m^3/s]"),
-        ("model reach [m]", "model discharge (flood) [m^3/s]"),
-    ]
-    for a in axs:
-        drawn = sum(len(c.get_offsets()) for c in a.collections if "points" in c.get_label())
-        assert drawn == len(front3.points)
+    ax, cbar = fig.axes
+    assert (ax.get_xlabel(), ax.get_ylabel()) == ("weighted mismatch [-]", "model reach [m]")
+    assert cbar.get_ylabel() == "model discharge (flood) [m^3/s]"
+    pts = [c for c in ax.collections if "points" in c.get_label()]
+    assert sum(len(c.get_offsets()) for c in pts) == len(front3.points)
+    np.testing.assert_allclose(pts[0].get_array(), front3.values[:, 2], rtol=1e-12)
+    assert len(fig.legends) == 1 and ax.get_legend() is None  # one legend
+    entries = _legend(fig)
+    assert "case limit: reach <= 40 m" in entries
+    assert "case limit: discharge <= 0.15 m^3/s (on the colour bar)" in entries
+    assert "case limit: reach <= 40 m (lifted)" in _texts(ax)
+    assert "case limit 0.15 m^3/s" in [t.get_text() for t in cbar.texts]
 
 
 def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:

@@ -70,22 +70,37 @@ def tradeoff(
             "relaxing them buys.",
         ),
     ] = False,
+    mismatch: Annotated[
+        str,
+        typer.Option(
+            "--mismatch",
+            help="How the figure shows a group's mismatch: 'percent' (how far the model's "
+            "value is off the prototype's) or 'log' (|ln(model/prototype)|). The CSV and JSON "
+            "keep |ln|.",
+            show_default=True,
+        ),
+    ] = "percent",
     out: OutOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
 
     def body() -> int:
+        from compromise.errors import CaseError
         from compromise.explore.tradeoffs import trace_front
         from compromise.outfiles import check_output_folder
         from compromise.presentation.explore_tables import format_front, write_front
         from compromise.review.provenance import stamped
 
+        if mismatch not in ("percent", "log"):
+            raise CaseError(
+                f"--mismatch must be 'percent' or 'log', not '{mismatch}'", key="--mismatch"
+            )
         check_output_folder(out or Path("out") / case.stem)
         front = trace_front(
             _load(case), _axes_list(between, more), points=points, lift=not keep_limits
         )
-        paths = write_front(front, out or Path("out") / case.stem)
+        paths = write_front(front, out or Path("out") / case.stem, mismatch)
         if json_out:
             _print_json(stamped(front.to_dict(), front.case))
         else:

@@ -17,8 +17,9 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
     Files: ``design.csv``, ``groups.csv``, ``limits.csv``, ``quantities.csv``,
     ``alternatives.csv`` (and ``conflict.csv`` when infeasible); with the scale effects,
     ``regimes.csv``, ``thresholds.csv`` and ``consequences.csv``, as in the text report. The
-    groups' mismatch is the log-ratio ``ln(model/prototype)``, and its header says so. Values are in the units of
-    ``sol`` (SI as computed, or as :func:`compromise.presentation.display.to_display` made
+    groups' mismatch is the log-ratio ``ln(model/prototype)``, and its header says so. Values
+    are in the units of ``sol`` (SI as computed, or as
+    :func:`compromise.presentation.display.to_display` made
     them); the ``unit`` columns and the design's headers say which. Each file goes through
     :mod:`compromise.outfiles` (temporary name, then rename).
     """

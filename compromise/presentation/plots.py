@@ -13,7 +13,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from compromise.presentation.figures import add_footer, fluid_colours, new_figure, save_figure
+from compromise.presentation.figures import add_footer, new_figure, save_figure
+from compromise.presentation.front_plot import front_figure
 from compromise.presentation.sensitivity_plot import sensitivity_figure
 
 __all__ = ["front_figure", "map_figure", "save_figure", "sensitivity_figure", "short_label"]
@@ -25,7 +26,6 @@ if TYPE_CHECKING:
     from matplotlib.figure import Figure
 
     from compromise.explore.designmap import DesignMap
-    from compromise.explore.tradeoffs import Front
     from compromise.solving.design import Design
 
 LINE_STYLES = ("-", "--", "-.", ":")
@@ -37,125 +37,6 @@ def short_label(design: Design) -> str:
     if abs(design.distortion - 1.0) > 1e-6:
         ratios += f", distortion {design.distortion:.2f}"
     return f"{design.fluid} {design.temperature - 273.15:.1f} degC, {ratios}"
-
-
-# --------------------------------------------------------------------------------------------
-# fronts
-
-
-def front_figure(front: Front) -> Figure:
-    """The Pareto front: points coloured by fluid, the knee and the solver's design labelled,
-    units on the axes; with three axes, the three pairwise projections."""
-    k = len(front.axes)
-    pairs = [(0, 1)] if k == 2 else [(0, 1), (0, 2), (1, 2)]
-    fig = new_figure(7.5 if k == 2 else 15.0, 5.6 if k == 2 else 5.0)
-    axs = fig.subplots(1, len(pairs), squeeze=False)[0]
-    colours = fluid_colours(front.case.model.fluids)
-    v = front.values
-    fluids = [pt.design.fluid for pt in front.points]
-    for n, (i, j) in enumerate(pairs):
-        ax = axs[n]
-        if k == 2 and len(front.fluid_fronts) > 1:
-            for f, fv in front.fluid_fronts.items():
-                o = np.argsort(fv[:, i])
-                ax.plot(
-                    fv[o, i],
-                    fv[o, j],
-                    color=colours[f],
-                    lw=0.9,
-                    alpha=0.45,
-                    zorder=1,
-                    label=f"{f}: its own front",
-                )
-        if k == 2 and v.shape[0] > 1:
-            ax.plot(v[:, i], v[:, j], color="0.55", lw=1.0, zorder=2)
-        for f in front.case.model.fluids:
-            mine = np.array([x == f for x in fluids], dtype=bool)
-            if mine.any():
-                ax.scatter(
-                    v[mine, i],
-                    v[mine, j],
-                    s=16,
-                    color=colours[f],
-                    zorder=3,
-                    label=f"{f} ({int(mine.sum())} points)",
-                )
-        if front.knee >= 0:
-            kv = v[front.knee]
-            ax.scatter(
-                [kv[i]],
-                [kv[j]],
-                s=170,
-                facecolors="none",
-                edgecolors="black",
-                lw=1.6,
-                zorder=4,
-                label="knee",
-            )
-            if n == 0:
-                _callout(
-                    ax,
-                    f"knee: {short_label(front.points[front.knee].design)}",
-                    (kv[i], kv[j]),
-                    0.80,
-                    "white",
-                )
-        if front.chosen is not None:
-            cv = front.chosen.values
-            ax.scatter(
-                [cv[i]],
-                [cv[j]],
-                marker="*",
-                s=260,
-                color="#ffd400",
-                edgecolors="black",
-                lw=0.9,
-                zorder=5,
-                label="solver's design",
-            )
-            if n == 0:
-                _callout(
-                    ax,
-                    f"chosen: {short_label(front.chosen.design)}",
-                    (cv[i], cv[j]),
-                    0.70,
-                    "#fff7cc",
-                )
-        for idx, line in ((i, ax.axvline), (j, ax.axhline)):
-            a = front.axes[idx]
-            if a.lifted and a.case_bound is not None:
-                line(
-                    a.case_bound,
-                    color="0.35",
-                    ls="--",
-                    lw=1.0,
-                    zorder=1,
-                    label=f"case limit: {a.name} <= {fmt(a.case_bound)} {a.unit}",
-                )
-        ax.set_xlabel(f"{front.axes[i].label} [{front.axes[i].unit}]")
-        ax.set_ylabel(f"{front.axes[j].label} [{front.axes[j].unit}]")
-        ax.grid(True, color="0.9", lw=0.6)
-        ax.set_axisbelow(True)
-        if n == 0 and ax.get_legend_handles_labels()[0]:
-            ax.legend(loc="lower left", fontsize=8.5, framealpha=0.9)
-    if len(front.points) == 1:
-        axs[0].text(
-            0.5,
-            0.04,
-            "the front is a single point: one design is best on every axis",
-            transform=axs[0].transAxes,
-            ha="center",
-            fontsize=9,
-            color="0.3",
-        )
-    elif not front.points:
-        axs[0].text(0.5, 0.5, "no feasible design", transform=axs[0].transAxes, ha="center")
-    names = " vs ".join(a.name for a in front.axes)
-    fig.suptitle(
-        f"{front.case.title}\nPareto front: {names} ({len(front.points)} points)", fontsize=11
-    )
-    add_footer(fig, front.case)
-    return fig
 
 
 # --------------------------------------------------------------------------------------------
@@ -505,16 +386,3 @@ def _label_line(
         bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": colour, "alpha": 0.9},
     )
     return boxes[i]
-
-
-def _callout(ax: Any, text: str, xy: tuple[float, float], height: float, face: str) -> None:
-    """A boxed label at (0.55, ``height``) in axes fraction, with a line to the point ``xy``."""
-    ax.annotate(
-        text,
-        xy,
-        xytext=(0.55, height),
-        textcoords="axes fraction",
-        fontsize=8.5,
-        arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
-        bbox={"boxstyle": "round,pad=0.25", "fc": face, "ec": "0.6"},
-    )

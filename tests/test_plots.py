@@ -170,10 +170,12 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     assert len(crossing) >= 4
     entries = _legend(fig)
     for b in crossing:
-        if "@" in b.key:  # the same limit in a looser condition: in the legend only
-            assert b.label in entries
-        else:
+        if "@" not in b.key:  # a looser condition's line is named in its limit's entry
             assert b.label + ("  (binds)" if b.binding else "") in texts
+    # one legend entry per limit, its conditions named inside
+    assert "depth >= 0.03 m: low (line); mean, flood (dotted)" in entries
+    assert "reynolds >= 4000: low (line); mean, flood (dotted)" in entries
+    assert len(entries) <= 10
     # every condition's boundary of a limit is drawn (the river's depth floor in three flows)
     assert {"depth >= 0.03 m (low)", "depth >= 0.03 m (mean)", "depth >= 0.03 m (flood)"} <= {
         b.label for b in dmap.boundaries
@@ -183,7 +185,8 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     entries = _legend(fig)
     assert any(e.startswith("optimum: water") for e in entries)
     assert "outside the feasible window (ticks mark the infeasible side)" in entries
-    assert "discharge <= 0.15 m^3/s (flood)  (binds at the optimum)" in entries
+    assert "discharge <= 0.15 m^3/s: flood (line); mean (dotted)  (binds at the optimum)" in entries
+    assert "distortion <= 5 [model]" in texts  # the [model] bound closing the window
     assert {"1:50", "1:75", "1:100", "1:150", "1:200"} <= set(texts)  # preferred ratios
     assert ax.get_xscale() == "log" and ax.get_xticklabels()[0].get_text().startswith("1:")
 
@@ -208,7 +211,80 @@ def test_sensitivity_figure_has_one_bar_per_candidate(sens: Sensitivity) -> None
     assert list(ax.get_yticks()) == list(range(len(labels)))[::-1]
     assert ax.get_xlabel() == "share of the samples in which it is the best design [%]"
     assert any("best at the case's weights" in t for t in _texts(ax))
-    assert _legend(ax) == ["water"]
+    assert _legend(fig) == ["water"]
+
+
+def test_a_sliver_window_is_zoomed_and_full_range_keeps_the_frame() -> None:
+    """The spillway's window spans 2.5 % of the horizontal-ratio range: zoomed by default onto
+    it, the full range on request; the [model] temperature bounds close it at both ends."""
+    case = load_case(ROOT / "cases" / "spillway.toml")
+    zoomed = design_map(case, resolution=31)
+    full = design_map(case, resolution=31, full_range=True)
+    assert zoomed.zoomed == (True, False) and full.zoomed == (False, False)
+    x_full = np.log(full.x[-1] / full.x[0])
+    x_zoom = np.log(zoomed.x[-1] / zoomed.x[0])
+    assert x_zoom < 0.25 * x_full
+    assert full.feasible_share < 0.1 and zoomed.feasible_share > 0.15
+    fig = map_figure(zoomed)
+    assert "zoomed onto the feasible window" in fig.get_suptitle()
+    lo, hi = fig.axes[0].get_xlim()
+    assert lo == pytest.approx(zoomed.x[0]) and hi == pytest.approx(zoomed.x[-1])
+    texts = _texts(fig.axes[0])
+    assert {"temperature <= 25 degC [model]", "temperature >= 10 degC [model]"} <= set(texts)
+    # both maps place the optimum at the same design
+    assert zoomed.coordinates(zoomed.optimum) == full.coordinates(full.optimum)
+
+
+def test_coincident_boundaries_stay_visible() -> None:
+    """The wind tunnel's chord and span limits fall on the same horizontal ratio (0.4 m and
+    0.6 m at the same 1:4): the second is dashed over the first and says so."""
+    dm = design_map(load_case(ROOT / "cases" / "wind_tunnel.toml"), resolution=31)
+    fig = map_figure(dm)
+    texts = _texts(fig.axes[0])
+    assert any(t.startswith("span <= 0.6 m") and "(on chord <= 0.4 m)" in t for t in texts)
+    styles = {h.get_label(): h.get_linestyle() for h in fig.legends[0].legend_handles}
+    span = next(k for k in styles if k.startswith("span"))
+    assert styles[span] != styles[next(k for k in styles if k.startswith("chord"))]
+
+
+def _svg_text(fig: Any, tmp_path: Path, case: Case) -> str:
+    return save_figure(fig, tmp_path / "f", case)[1].read_text(encoding="utf-8")
+
+
+def test_svg_text_has_every_limit_label_and_the_footer(
+    front: Front, dmap: DesignMap, sens: Sensitivity, river: Case, tmp_path: Path
+) -> None:
+    """Figures as data: the SVG (text kept as text) names every limit drawn and carries the
+    footer (title, version, short hash, caution)."""
+    from compromise.review.provenance import provenance_line
+
+    for fig in (front_figure(front), map_figure(dmap), sensitivity_figure(sens)):
+        svg = _svg_text(fig, tmp_path, river)
+        assert provenance_line(river).replace("^", "^") in svg.replace("&amp;", "&")
+        assert "licensed engineer" in svg
+    svg = _svg_text(map_figure(dmap), tmp_path, river).replace("&gt;", ">").replace("&lt;", "<")
+    for b in dmap.boundaries:
+        if np.any(b.violation > 0) and np.any(b.violation <= 0):
+            assert b.label.rsplit(" (", 1)[0] in svg, b.label
+    svg = _svg_text(front_figure(front), tmp_path, river).replace("&lt;", "<")
+    assert "case limit: discharge <= 0.15 m^3/s (lifted)" in svg
+
+
+def test_sensitivity_labels_stay_inside_the_figure() -> None:
+    """The pipe rig's long candidate names and tied labels end inside the image."""
+    sv = weight_sensitivity(load_case(ROOT / "cases" / "pipe_rig.toml"), samples=50, seed=0)
+    fig = sensitivity_figure(sv)
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    page = fig.bbox
+    ax = fig.axes[0]
+    for t in [*ax.texts, *ax.get_yticklabels(), *fig.legends[0].get_texts()]:
+        e = t.get_window_extent(r)
+        assert page.x0 <= e.x0 and e.x1 <= page.x1, t.get_text()
+    frame = ax.get_window_extent(r)
+    assert all(t.get_window_extent(r).x1 <= frame.x1 for t in ax.texts)
+    assert "every candidate is tied" in fig.get_suptitle()
+    assert all(t.get_text() == "tied 100.0 %" for t in ax.texts)
 
 
 def test_svg_and_png_are_byte_for_byte_reproducible(front: Front, tmp_path: Path) -> None:

@@ -141,6 +141,14 @@ def map_(
     resolution: Annotated[
         int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
     ] = 81,
+    full_range: Annotated[
+        bool,
+        typer.Option(
+            "--full-range",
+            help="Draw each axis over its whole range; by default an axis on which the "
+            "feasible window is a thin sliver (under a fifth of the range) is zoomed onto it.",
+        ),
+    ] = False,
     out: OutOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
@@ -154,7 +162,9 @@ def map_(
 
         check_output_folder(out or Path("out") / case.stem)
         names = _axes_list(axes, more)
-        dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
+        dmap = design_map(
+            _load(case), names or None, fluid=fluid, resolution=resolution, full_range=full_range
+        )
         paths = write_map(dmap, out or Path("out") / case.stem)
         if json_out:
             _print_json(stamped(dmap.to_dict(), dmap.case))

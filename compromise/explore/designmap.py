@@ -44,6 +44,10 @@ _NORMALS = {
     "velocity_ratio": np.array([0.0, 0.0, 1.0]),
 }
 MAP_ZOOM_ROUNDS = 3
+#: A feasible window narrower than this share of an axis's range (log for ratios) is a sliver:
+#: by default the map zooms that axis onto it (common practice for a readable figure).
+SLIVER = 0.2
+SCOUT_RESOLUTION = 41
 
 
 @dataclass(frozen=True)
@@ -111,6 +115,8 @@ class DesignMap:
     optimum: Design | None
     optimum_objective: float
     preferred: tuple[tuple[str, Design | None, float], ...]
+    full_ranges: tuple[tuple[float, float], ...] = ()
+    zoomed: tuple[bool, bool] = (False, False)
 
     @property
     def labels(self) -> tuple[str, str]:
@@ -153,6 +159,7 @@ class DesignMap:
             "y": self.grid(1).tolist(),
             "objective": [[opt(v) for v in row] for row in self.objective],
             "feasible_share": self.feasible_share,
+            "zoomed": list(self.zoomed),
             "limits": {
                 b.key: {"label": b.label, "binding": b.binding, "excluded": b.excluded}
                 for b in self.boundaries
@@ -262,6 +269,7 @@ def design_map(
     fluid: str | None = None,
     resolution: int = 81,
     n_temperatures: int = 24,
+    full_range: bool = False,
 ) -> DesignMap:
     """The design-space map of a case (see the module docstring).
 
@@ -277,6 +285,10 @@ def design_map(
         Grid points per axis.
     n_temperatures : int
         Temperature grid before the zoom (when temperature is not an axis).
+    full_range : bool
+        Draw each axis over its whole range. By default an axis on which the feasible window
+        is a sliver (narrower than :data:`SLIVER` of the range, found on a coarse scouting
+        grid) is zoomed onto the window, with half its width as margin on either side.
 
     Returns
     -------
@@ -344,34 +356,45 @@ def design_map(
         if opt is None
         else Design(fluid, opt.temperature, opt.pressure, *(math.exp(float(v)) for v in opt.y))
     )
-    ranges = [_range(case, problem, a, fs, opt.y if opt else None) for a in axes]
-    grids = [
-        np.linspace(lo, hi, resolution) if a == "temperature" else np.geomspace(lo, hi, resolution)
-        for a, (lo, hi) in zip(axes, ranges, strict=True)
-    ]
-    gx, gy = np.meshgrid(grids[0], grids[1])  # (ny, nx)
-    cells = np.column_stack([gx.ravel(), gy.ravel()])
-    t_fixed = None
-    ratio_cols = [i for i, a in enumerate(axes) if a != "temperature"]
-    if len(ratio_cols) < 2:
-        t_fixed = cells[:, 1 - ratio_cols[0]]
-    extra_e = np.log(cells[:, ratio_cols])
+    full = [_range(case, problem, a, fs, opt.y if opt else None) for a in axes]
     map_engine = Engine(problem, extra_E=extra)
     qp = SmallQP(map_engine.H, problem.G, np.vstack([problem.E, extra]))
+    ratio_cols = [i for i, a in enumerate(axes) if a != "temperature"]
 
-    def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
-        f, h, e, _ = map_engine.linear_terms(p, extra_e=extra_e[items])
-        y = qp.solve(f, h, e).y
-        return map_engine.true_objective(y, p)
+    def window(ranges: list[tuple[float, float]], n: int) -> tuple[Any, ...]:
+        grids = [
+            np.linspace(lo, hi, n) if a == "temperature" else np.geomspace(lo, hi, n)
+            for a, (lo, hi) in zip(axes, ranges, strict=True)
+        ]
+        gx, gy = np.meshgrid(grids[0], grids[1])  # (ny, nx)
+        cells = np.column_stack([gx.ravel(), gy.ravel()])
+        t_fixed = cells[:, 1 - ratio_cols[0]] if len(ratio_cols) < 2 else None
+        extra_e = np.log(cells[:, ratio_cols])
 
-    T, _, obj = lower_envelope(
-        [space],
-        np.zeros(len(cells), dtype=int),
-        objective,
-        n_temperatures=n_temperatures,
-        temperature=t_fixed,
-        zoom_rounds=MAP_ZOOM_ROUNDS,
-    )
+        def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
+            f, h, e, _ = map_engine.linear_terms(p, extra_e=extra_e[items])
+            y = qp.solve(f, h, e).y
+            return map_engine.true_objective(y, p)
+
+        T, _, obj = lower_envelope(
+            [space],
+            np.zeros(len(cells), dtype=int),
+            objective,
+            n_temperatures=n_temperatures,
+            temperature=t_fixed,
+            zoom_rounds=MAP_ZOOM_ROUNDS,
+        )
+        return grids, gx, t_fixed, extra_e, T, obj
+
+    ranges = list(full)
+    zoomed = [False, False]
+    if not full_range:
+        scout = window(full, min(resolution, SCOUT_RESOLUTION))
+        ranges, zoomed = _zoom(axes, full, scout[0], np.isfinite(scout[5]).reshape(scout[1].shape))
+    if zoomed == [False, False] and resolution <= SCOUT_RESOLUTION and not full_range:
+        grids, gx, t_fixed, extra_e, T, obj = scout
+    else:
+        grids, gx, t_fixed, extra_e, T, obj = window(ranges, resolution)
     shape = gx.shape
     h_opt = None if opt is None else problem.rhs(fs.exact_p(opt.temperature, opt.pressure))[0]
     boundaries = _boundaries(
@@ -399,7 +422,42 @@ def design_map(
         optimum,
         opt.objective if opt else math.inf,
         preferred,
+        tuple(full),
+        (zoomed[0], zoomed[1]),
     )
+
+
+def _zoom(
+    axes: tuple[str, ...],
+    full: list[tuple[float, float]],
+    grids: list[np.ndarray],
+    feasible: np.ndarray,
+) -> tuple[list[tuple[float, float]], list[bool]]:
+    """The ranges of the map: an axis on which the feasible cells of the scouting grid span
+    less than :data:`SLIVER` of the range is narrowed to them, one scouting cell and half the
+    window's width added on either side (within the full range)."""
+    ranges, zoomed = list(full), [False, False]
+    if not feasible.any():
+        return ranges, zoomed
+    for which in (0, 1):
+        g = grids[which]
+        lin = axes[which] == "temperature"
+        t = g if lin else np.log(g)
+        hit = np.nonzero(feasible.any(axis=0 if which == 0 else 1))[0]
+        i0, i1 = max(int(hit[0]) - 1, 0), min(int(hit[-1]) + 1, len(g) - 1)
+        span = float(t[-1] - t[0])
+        width = float(t[i1] - t[i0])
+        if span <= 0 or width >= SLIVER * span:
+            continue
+        lo, hi = float(t[i0]) - 0.5 * width, float(t[i1]) + 0.5 * width
+        lo, hi = max(lo, float(t[0])), min(hi, float(t[-1]))
+        ranges[which] = (lo, hi) if lin else (math.exp(lo), math.exp(hi))
+        if lo <= t[0] + 1e-12 * max(1.0, abs(t[0])):
+            ranges[which] = (full[which][0], ranges[which][1])
+        if hi >= t[-1] - 1e-12 * max(1.0, abs(t[-1])):
+            ranges[which] = (ranges[which][0], full[which][1])
+        zoomed[which] = True
+    return ranges, zoomed
 
 
 def _boundaries(

@@ -16,7 +16,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from compromise.presentation.figures import add_footer, fluid_colours, new_figure
+from compromise.presentation.figures import add_footer, fluid_colours, new_figure, short_label
 from compromise.presentation.tables import fmt
 
 if TYPE_CHECKING:
@@ -257,23 +257,17 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
     if knee >= 0:
         callouts.append(
             (
-                "knee: " + _short(front.points[knee].design),
+                "knee: " + short_label(front.points[knee].design),
                 (shown[knee, 0], shown[knee, 1]),
                 "white",
             )
         )
     if chosen is not None:
         callouts.append(
-            ("chosen: " + _short(front.chosen.design), (chosen[0], chosen[1]), "#fff7cc")
+            ("chosen: " + short_label(front.chosen.design), (chosen[0], chosen[1]), "#fff7cc")
         )
     _place_callouts(fig, ax, callouts, shown[:, :2], limit_labels)
     return fig
-
-
-def _short(design: Any) -> str:
-    from compromise.presentation.plots import short_label
-
-    return short_label(design)
 
 
 def _scales(ax: Axes, front: Front, shown: np.ndarray, chosen: np.ndarray | None) -> None:

@@ -13,7 +13,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from compromise.presentation.figures import add_footer, new_figure, save_figure
+from compromise.presentation.figures import add_footer, new_figure, save_figure, short_label
 from compromise.presentation.front_plot import front_figure
 from compromise.presentation.sensitivity_plot import sensitivity_figure
 
@@ -26,17 +26,8 @@ if TYPE_CHECKING:
     from matplotlib.figure import Figure
 
     from compromise.explore.designmap import DesignMap
-    from compromise.solving.design import Design
 
 LINE_STYLES = ("-", "--", "-.", ":")
-
-
-def short_label(design: Design) -> str:
-    """``water 30.0 degC, 1:94, distortion 4.38``."""
-    ratios = format_ratio(design.horizontal_ratio)
-    if abs(design.distortion - 1.0) > 1e-6:
-        ratios += f", distortion {design.distortion:.2f}"
-    return f"{design.fluid} {design.temperature - 273.15:.1f} degC, {ratios}"
 
 
 # --------------------------------------------------------------------------------------------
@@ -53,14 +44,26 @@ def _nice_ratios(lo: float, hi: float) -> list[float]:
     return sorted(out)
 
 
+def _round_ratios(lo: float, hi: float) -> list[float]:
+    """Ratios 1:n with n a multiple of a round step, four to eight of them in [lo, hi]."""
+    d_lo, d_hi = 1.0 / hi, 1.0 / lo
+    for e in range(-3, 6):
+        for m in (1, 2, 5):
+            step = m * 10.0**e
+            n = np.arange(np.ceil(d_lo / step), np.floor(d_hi / step) + 1) * step
+            if len(n) <= 8:
+                return sorted(1.0 / n[n > 0]) if len(n) >= 3 else []
+    return []
+
+
 def _ratio_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
     from matplotlib.ticker import FixedLocator, FuncFormatter, NullLocator
 
     axis = ax.xaxis if which == "x" else ax.yaxis
     (ax.set_xscale if which == "x" else ax.set_yscale)("log")
     ticks = _nice_ratios(lo, hi)
-    if len(ticks) < 3:
-        ticks = sorted({lo, hi, *ticks})
+    if len(ticks) < 4:  # a zoomed axis: round denominators at a step giving a few ticks
+        ticks = _round_ratios(lo, hi) or sorted({lo, hi, *ticks})
     axis.set_major_locator(FixedLocator(ticks))
     axis.set_minor_locator(NullLocator())
     axis.set_major_formatter(FuncFormatter(lambda v, _: format_ratio(v)))
@@ -215,9 +218,13 @@ def map_figure(dmap: DesignMap) -> Figure:
         "#bcbd22",
         "#7f7f7f",
     )
+    placed.extend(_model_bounds(ax, dmap, feasible))
     # one colour per limit; the same limit in a looser condition (key "...@condition") is a
-    # thin dotted line of the same colour, without ticks or an on-line label
+    # thin dotted line of the same colour, without ticks or an on-line label. A boundary that
+    # runs on top of one already drawn is dashed, so that the one beneath shows in its gaps.
     base_keys = list(dict.fromkeys(b.key.split("@")[0] for b in dmap.boundaries))
+    drawn: list[tuple[str, np.ndarray]] = []
+    entries: dict[str, dict[str, Any]] = {}
     for b in dmap.boundaries:
         g = b.violation
         if not (np.any(g > 0) and np.any(g <= 0)):
@@ -226,7 +233,19 @@ def map_figure(dmap: DesignMap) -> Figure:
         n = base_keys.index(base)
         colour = colours[n % len(colours)]
         looser = "@" in b.key
-        style = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        style: Any = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        on_top = None
+        if not looser:
+            field = np.where(np.isfinite(g), g, 1e3)
+            probe = ax.contour(gx, gy, field, levels=[0.0])
+            segs0 = [sg for sg in probe.allsegs[0] if len(sg) > 1]
+            probe.remove()
+            if segs0:
+                mine = _unit_coords(dmap, *np.vstack(segs0).T)
+                on_top = _coincides(mine, drawn)
+                drawn.append((_base_label(b.label), mine))
+            if on_top is not None:
+                style = (0, (6, 6))
         cs = ax.contour(
             gx,
             gy,
@@ -243,17 +262,16 @@ def map_figure(dmap: DesignMap) -> Figure:
             cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
             if segs:
                 text = b.label + ("  (binds)" if b.binding else "")
+                if on_top is not None:
+                    text += f"  (on {on_top})"
                 placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
-        handles.append(
-            Line2D(
-                [],
-                [],
-                color=colour,
-                lw=1 if looser else 2,
-                ls=style,
-                label=b.label + ("  (binds at the optimum)" if b.binding else ""),
-            )
+        entry = entries.setdefault(
+            base, {"colour": colour, "style": style, "label": _base_label(b.label), "conds": []}
         )
+        if not looser:
+            entry["style"] = style
+        entry["conds"].append((_condition(b.label), looser, b.binding))
+    handles.extend(_limit_entry(e) for e in entries.values())
     if dmap.optimum is not None:
         ox, oy = dmap.coordinates(dmap.optimum)
         ax.scatter(
@@ -269,7 +287,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                 mec="black",
                 lw=0,
                 label=f"optimum: {short_label(dmap.optimum)}, "
-                f"mismatch {fmt(dmap.optimum_objective)}",
+                f"mismatch {fmt(_denoise(dmap.optimum_objective))}",
             )
         )
     if dmap.axes[0] == "horizontal_ratio" and dmap.preferred:
@@ -326,13 +344,134 @@ def map_figure(dmap: DesignMap) -> Figure:
     legend = fig.legend(
         handles=handles, loc="outside lower center", ncol=2, fontsize=8.3, frameon=False
     )
+    zoom = [dmap.labels[i].split(" (")[0] for i in (0, 1) if any(dmap.zoomed) and dmap.zoomed[i]]
+    note = (
+        f"\nzoomed onto the feasible window along the {' and '.join(zoom)} "
+        "(--full-range: the whole range)"
+        if zoom
+        else ""
+    )
     fig.suptitle(
         f"{dmap.case.title}\ndesign-space map, model fluid {dmap.fluid} (the other "
-        "choices at their optimum in each cell)",
+        f"choices at their optimum in each cell){note}",
         fontsize=11,
     )
     add_footer(fig, dmap.case, legend)
     return fig
+
+
+def _base_label(label: str) -> str:
+    """``depth >= 0.03 m`` of ``depth >= 0.03 m (low)``."""
+    return label.rsplit(" (", 1)[0] if label.endswith(")") else label
+
+
+def _condition(label: str) -> str:
+    """``low`` of ``depth >= 0.03 m (low)``; empty without a condition."""
+    return label.rsplit(" (", 1)[1][:-1] if label.endswith(")") and " (" in label else ""
+
+
+def _limit_entry(entry: dict[str, Any]) -> Any:
+    """One legend entry per limit, its conditions named inside: ``depth >= 0.03 m: low
+    (solid); mean, flood (dotted)``, and where it binds at the optimum."""
+    from matplotlib.lines import Line2D
+
+    tight = [c for c, looser, _ in entry["conds"] if not looser and c]
+    loose = [c for c, looser, _ in entry["conds"] if looser and c]
+    binds = [c for c, _, b in entry["conds"] if b]
+    label = entry["label"]
+    if tight and loose:
+        label += f": {', '.join(tight)} (line); {', '.join(loose)} (dotted)"
+    elif tight:
+        label += f" ({', '.join(tight)})"
+    if binds:
+        label += "  (binds at the optimum)"
+    return Line2D([], [], color=entry["colour"], lw=2, ls=entry["style"], label=label)
+
+
+def _coincides(mine: np.ndarray, drawn: list[tuple[str, np.ndarray]]) -> str | None:
+    """The label of a boundary already drawn that this one (points in unit coordinates) runs
+    on: most of its points within 0.8 % of the frame of that one's."""
+    for label, other in drawn:
+        d = np.min(np.sum((mine[::3, None, :] - other[None, ::3, :]) ** 2, axis=2), axis=1)
+        if np.mean(np.sqrt(d) < 0.008) > 0.6:
+            return label
+    return None
+
+
+def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.ndarray]:
+    """Label each ``[model]`` bound at the frame's edge where it closes the feasible window,
+    centred on the window's stretch of that edge; return the labels' boxes in unit
+    coordinates (for the other labels to keep clear of)."""
+    if not feasible.any():
+        return []
+    m = dmap.case.model
+    bounds = {
+        "horizontal_ratio": m.horizontal_ratio,
+        "distortion": m.distortion,
+        "temperature": (m.temperature[0] - 273.15, m.temperature[1] - 273.15),
+        "velocity_ratio": m.velocity_ratio,
+        "vertical_ratio": (
+            m.horizontal_ratio[0] * m.distortion[0],
+            m.horizontal_ratio[1] * m.distortion[1],
+        ),
+    }
+    names = {"horizontal_ratio": "X", "vertical_ratio": "Y", "velocity_ratio": "V"}
+    unit = _unit_coords(dmap, dmap.grid(0), dmap.grid(1))  # each axis's grid in [0, 1]
+    boxes = []
+    style = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "black", "alpha": 0.9}
+    for which in (0, 1):
+        axis = dmap.axes[which]
+        b = bounds.get(axis)
+        if b is None:
+            continue
+        g = dmap.grid(which)
+        for end, value, op in ((0, b[0], ">="), (-1, b[1], "<=")):
+            on_edge = feasible[:, end] if which == 0 else feasible[end, :]
+            if not on_edge.any() or abs(g[end] - value) > 1e-9 * max(1.0, abs(value)):
+                continue
+            if axis == "temperature":
+                shown = f"temperature {op} {value:g} degC"
+            elif axis in names:
+                shown = f"{names[axis]} {op} {format_ratio(value)}"
+            else:
+                shown = f"{axis} {op} {value:g}"
+            text = f"{shown} [model]"
+            along = float(np.mean(unit[on_edge, 1 - which]))
+            pos = 0.0 if end == 0 else 1.0
+            w, h = 0.0098 * len(text) + 0.01, 0.045
+            if which == 0:
+                ax.text(
+                    pos + (0.006 if end == 0 else -0.006),
+                    along,
+                    text,
+                    transform=ax.transAxes,
+                    rotation=90,
+                    ha="left" if end == 0 else "right",
+                    va="center",
+                    fontsize=8.5,
+                    fontweight="bold",
+                    zorder=9,
+                    bbox=style,
+                )
+                x0 = pos if end == 0 else pos - h
+                boxes.append(np.array([x0, x0 + h, along - w / 2, along + w / 2]))
+            else:
+                along = min(max(along, w / 2 + 0.01), 1 - w / 2 - 0.01)
+                ax.text(
+                    along,
+                    pos + (0.008 if end == 0 else -0.008),
+                    text,
+                    transform=ax.transAxes,
+                    ha="center",
+                    va="bottom" if end == 0 else "top",
+                    fontsize=8.5,
+                    fontweight="bold",
+                    zorder=9,
+                    bbox=style,
+                )
+                y0 = pos if end == 0 else pos - h
+                boxes.append(np.array([along - w / 2, along + w / 2, y0, y0 + h]))
+    return boxes
 
 
 def _label_line(
@@ -386,3 +525,9 @@ def _label_line(
         bbox={"boxstyle": "round,pad=0.15", "fc": "white", "ec": colour, "alpha": 0.9},
     )
     return boxes[i]
+
+
+def _denoise(v: float) -> float:
+    from compromise.solving.result import denoise
+
+    return denoise(v)

@@ -227,6 +227,8 @@ def test_a_sliver_window_is_zoomed_and_full_range_keeps_the_frame() -> None:
     assert full.feasible_share < 0.1 and zoomed.feasible_share > 0.15
     fig = map_figure(zoomed)
     assert "zoomed onto the feasible window" in fig.get_suptitle()
+    assert "thin sliver of the horizontal_ratio range (1:100 to 1:10)" in format_map(zoomed)
+    assert "sliver" not in format_map(full)
     lo, hi = fig.axes[0].get_xlim()
     assert lo == pytest.approx(zoomed.x[0]) and hi == pytest.approx(zoomed.x[-1])
     texts = _texts(fig.axes[0])

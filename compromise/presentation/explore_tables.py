@@ -211,6 +211,18 @@ def format_map(dmap: DesignMap) -> str:
         f"Design-space map over {dmap.axes[0]} and {dmap.axes[1]}, model fluid {dmap.fluid}:"
         f" {100 * dmap.feasible_share:.1f} % of the map is feasible.",
     ]
+    for i in (0, 1):
+        if dmap.zoomed and dmap.zoomed[i]:
+            lo, hi = dmap.full_ranges[i]
+            shown = (
+                f"{lo - 273.15:g} to {hi - 273.15:g} degC"
+                if dmap.axes[i] == "temperature"
+                else f"{format_ratio(lo)} to {format_ratio(hi)}"
+            )
+            out.append(
+                f"The feasible window is a thin sliver of the {dmap.axes[i]} range ({shown}): "
+                "the map is zoomed onto it (--full-range for the whole range)."
+            )
     if dmap.optimum is not None:
         out.append(
             f"Optimum: {_short(dmap.optimum)} (weighted mismatch "

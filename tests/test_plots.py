@@ -20,6 +20,7 @@ import pytest
 
 from compromise.casefile.load import load_case
 from compromise.casefile.model import Case
+from compromise.errors import CaseError
 from compromise.explore.designmap import DesignMap, design_map
 from compromise.explore.sensitivity import Sensitivity, weight_sensitivity
 from compromise.explore.tradeoffs import Front, trace_front
@@ -235,6 +236,23 @@ def test_a_sliver_window_is_zoomed_and_full_range_keeps_the_frame() -> None:
     assert {"temperature <= 25 degC [model]", "temperature >= 10 degC [model]"} <= set(texts)
     # both maps place the optimum at the same design
     assert zoomed.coordinates(zoomed.optimum) == full.coordinates(full.optimum)
+
+
+def test_pressure_is_a_map_axis_for_the_pressurised_tunnel() -> None:
+    """The wind tunnel lets the air's pressure vary from 1 to 8 bar: the default map is over
+    the horizontal ratio and the pressure. At 1:4 and 12 degC, Reynolds is matched when the
+    pressure makes nu_model = nu_air / 4 (ideal gas: nu ~ 1/p, common practice), about 4 bar,
+    where the solver's optimum sits."""
+    dm = design_map(load_case(ROOT / "cases" / "wind_tunnel.toml"), resolution=31)
+    assert dm.axes == ("horizontal_ratio", "pressure") and dm.units[1] == "bar"
+    x, p = dm.coordinates(dm.optimum)
+    assert x == pytest.approx(0.25) and p == pytest.approx(4.0, rel=0.02)
+    assert dm.grid(1)[0] == pytest.approx(1.0) and dm.grid(1)[-1] == pytest.approx(8.0)
+    fig = map_figure(dm)
+    assert fig.axes[0].get_ylabel() == "model fluid pressure [bar]"
+    assert {"pressure <= 8 bar [model]", "pressure >= 1 bar [model]"} <= set(_texts(fig.axes[0]))
+    with pytest.raises(CaseError, match="pressure"):
+        design_map(load_case(ROOT / "cases" / "river_bend.toml"), ["horizontal_ratio", "pressure"])
 
 
 def test_coincident_boundaries_stay_visible() -> None:

@@ -120,9 +120,10 @@ def map_(
         typer.Option(
             "--axes",
             help="Two decision variables among horizontal_ratio, "
-            "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
+            "vertical_ratio, distortion, velocity_ratio, temperature and pressure: --axes "
             "horizontal_ratio distortion (default: those two when the case allows "
-            "distortion, else horizontal_ratio and temperature).",
+            "distortion, else horizontal_ratio and pressure when a gas's pressure may vary, "
+            "else horizontal_ratio and temperature).",
             show_default=False,
         ),
     ] = None,

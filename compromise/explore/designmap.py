@@ -36,7 +36,10 @@ MAP_AXES: dict[str, tuple[str, str]] = {
     "distortion": ("distortion Y / X", "-"),
     "velocity_ratio": ("velocity ratio V (model / prototype)", "-"),
     "temperature": ("model fluid temperature", "degC"),
+    "pressure": ("model fluid pressure", "bar"),
 }
+#: Axes that are the fluid's state, not a ratio (searched, not fixed by extra equality rows).
+STATE_AXES = ("temperature", "pressure")
 _NORMALS = {
     "horizontal_ratio": np.array([1.0, 0.0, 0.0]),
     "vertical_ratio": np.array([0.0, 1.0, 0.0]),
@@ -140,7 +143,9 @@ class DesignMap:
     def grid(self, which: int) -> np.ndarray:
         """Grid values of an axis in the map's units (temperatures in degC)."""
         g = self.x if which == 0 else self.y
-        return g - 273.15 if self.axes[which] == "temperature" else g
+        if self.axes[which] == "temperature":
+            return g - 273.15
+        return g / 1e5 if self.axes[which] == "pressure" else g
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data (SI, degC, ratios model/prototype); the grid as nested lists."""
@@ -186,6 +191,8 @@ class DesignMap:
 def _coordinate(design: Design, axis: str) -> float:
     if axis == "temperature":
         return design.temperature - 273.15
+    if axis == "pressure":
+        return design.pressure / 1e5
     if axis == "distortion":
         return design.distortion
     return float(getattr(design, axis))
@@ -193,13 +200,24 @@ def _coordinate(design: Design, axis: str) -> float:
 
 def default_axes(case: Case) -> tuple[str, str]:
     """``horizontal_ratio`` and ``distortion`` when the case allows distortion, else
-    ``horizontal_ratio`` and ``temperature`` (``velocity_ratio`` when the temperature is
-    fixed too)."""
+    ``horizontal_ratio`` and ``pressure`` when a gas's pressure may vary (a pressurised
+    tunnel's key decision), else ``horizontal_ratio`` and ``temperature``
+    (``velocity_ratio`` when the temperature is fixed too)."""
     if case.model.distortion[1] > case.model.distortion[0]:
         return "horizontal_ratio", "distortion"
+    if case.model.pressure[1] > case.model.pressure[0] and _pressure_matters(case):
+        return "horizontal_ratio", "pressure"
     if case.model.temperature[1] > case.model.temperature[0]:
         return "horizontal_ratio", "temperature"
     return "horizontal_ratio", "velocity_ratio"
+
+
+def _pressure_matters(case: Case) -> bool:
+    """Whether some fluid of the case has properties that depend on its pressure (a gas)."""
+    from compromise.solving.problem import build_problem
+
+    used = build_problem(case).used_properties
+    return any(FluidStates(case, f, used).pressures().size > 1 for f in case.model.fluids)
 
 
 def row_label(case: Case, row: Row) -> str:
@@ -223,6 +241,7 @@ def _range(
         "horizontal_ratio": m.horizontal_ratio,
         "distortion": m.distortion,
         "temperature": m.temperature,
+        "pressure": m.pressure,
         "vertical_ratio": (
             m.horizontal_ratio[0] * m.distortion[0],
             m.horizontal_ratio[1] * m.distortion[1],
@@ -278,7 +297,7 @@ def design_map(
     case : Case
     axes : (str, str), optional
         Two of ``horizontal_ratio``, ``vertical_ratio``, ``distortion``, ``velocity_ratio``,
-        ``temperature``; default :func:`default_axes`.
+        ``temperature``, ``pressure``; default :func:`default_axes`.
     fluid : str, optional
         The model fluid (default: the solver's choice).
     resolution : int
@@ -317,6 +336,7 @@ def design_map(
         "horizontal_ratio": m.horizontal_ratio,
         "distortion": m.distortion,
         "temperature": m.temperature,
+        "pressure": m.pressure,
         "velocity_ratio": m.velocity_ratio or (0.0, 1.0),
     }
     for a in axes:
@@ -327,7 +347,13 @@ def design_map(
                 file=case.path,
                 key=f"model.{a}",
             )
-    normals = [_NORMALS[a] for a in axes if a != "temperature"]
+    if all(a in STATE_AXES for a in axes):
+        raise CaseError(
+            "one axis of the map must be a ratio (horizontal_ratio, vertical_ratio, "
+            "distortion or velocity_ratio)",
+            key="--axes",
+        )
+    normals = [_NORMALS[a] for a in axes if a not in STATE_AXES]
     extra = np.array(normals).reshape(len(normals), 3)
     rank_e = np.linalg.matrix_rank(problem.E) if problem.E.size else 0
     if np.linalg.matrix_rank(np.vstack([problem.E, extra])) < rank_e + len(normals):
@@ -349,6 +375,12 @@ def design_map(
             )
     fs = FluidStates(case, fluid, problem.used_properties)
     space = StateSpace(fs)
+    if "pressure" in axes and not space.variable_pressure:
+        raise CaseError(
+            f"the properties of {fluid} do not depend on its pressure here, so the pressure "
+            "cannot be a map axis",
+            key="--axes",
+        )
     engine = Engine(problem)
     opt = best_state(engine, fs)
     optimum = (
@@ -359,7 +391,7 @@ def design_map(
     full = [_range(case, problem, a, fs, opt.y if opt else None) for a in axes]
     map_engine = Engine(problem, extra_E=extra)
     qp = SmallQP(map_engine.H, problem.G, np.vstack([problem.E, extra]))
-    ratio_cols = [i for i, a in enumerate(axes) if a != "temperature"]
+    ratio_cols = [i for i, a in enumerate(axes) if a not in STATE_AXES]
 
     def window(ranges: list[tuple[float, float]], n: int) -> tuple[Any, ...]:
         grids = [
@@ -368,7 +400,8 @@ def design_map(
         ]
         gx, gy = np.meshgrid(grids[0], grids[1])  # (ny, nx)
         cells = np.column_stack([gx.ravel(), gy.ravel()])
-        t_fixed = cells[:, 1 - ratio_cols[0]] if len(ratio_cols) < 2 else None
+        t_fixed = cells[:, axes.index("temperature")] if "temperature" in axes else None
+        lp_fixed = np.log(cells[:, axes.index("pressure")]) if "pressure" in axes else None
         extra_e = np.log(cells[:, ratio_cols])
 
         def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
@@ -383,8 +416,9 @@ def design_map(
             n_temperatures=n_temperatures,
             temperature=t_fixed,
             zoom_rounds=MAP_ZOOM_ROUNDS,
+            log_pressure=lp_fixed,
         )
-        return grids, gx, t_fixed, extra_e, T, obj
+        return grids, gx, (t_fixed, lp_fixed), extra_e, T, obj
 
     ranges = list(full)
     zoomed = [False, False]
@@ -392,9 +426,9 @@ def design_map(
         scout = window(full, min(resolution, SCOUT_RESOLUTION))
         ranges, zoomed = _zoom(axes, full, scout[0], np.isfinite(scout[5]).reshape(scout[1].shape))
     if zoomed == [False, False] and resolution <= SCOUT_RESOLUTION and not full_range:
-        grids, gx, t_fixed, extra_e, T, obj = scout
+        grids, gx, state_fixed, extra_e, T, obj = scout
     else:
-        grids, gx, t_fixed, extra_e, T, obj = window(ranges, resolution)
+        grids, gx, state_fixed, extra_e, T, obj = window(ranges, resolution)
     shape = gx.shape
     h_opt = None if opt is None else problem.rhs(fs.exact_p(opt.temperature, opt.pressure))[0]
     boundaries = _boundaries(
@@ -404,7 +438,7 @@ def design_map(
         space,
         extra,
         extra_e,
-        t_fixed,
+        state_fixed,
         n_temperatures,
         shape,
         None if opt is None else (opt.y, h_opt),
@@ -467,7 +501,7 @@ def _boundaries(
     space: StateSpace,
     extra: np.ndarray,
     extra_e: np.ndarray,
-    t_fixed: np.ndarray | None,
+    state_fixed: tuple[np.ndarray | None, np.ndarray | None],
     n_temperatures: int,
     shape: tuple[int, ...],
     at_optimum: tuple[np.ndarray, np.ndarray] | None,
@@ -502,8 +536,9 @@ def _boundaries(
             np.zeros(extra_e.shape[0], dtype=int),
             violation,
             n_temperatures=n_temperatures,
-            temperature=t_fixed,
+            temperature=state_fixed[0],
             zoom_rounds=0,
+            log_pressure=state_fixed[1],
         )
         binding = False
         if at_optimum is not None:

@@ -47,7 +47,10 @@ def short_label(design: Design) -> str:
     ratios = format_ratio(design.horizontal_ratio)
     if abs(design.distortion - 1.0) > 1e-6:
         ratios += f", distortion {design.distortion:.2f}"
-    return f"{design.fluid} {design.temperature - 273.15:.1f} degC, {ratios}"
+    state = f"{design.temperature - 273.15:.1f} degC"
+    if abs(design.pressure / 101325.0 - 1.0) > 0.01:  # a pressurised (or evacuated) fluid
+        state += f" {design.pressure / 1e5:.3g} bar"
+    return f"{design.fluid} {state}, {ratios}"
 
 
 def fluid_colours(fluids: tuple[str, ...] | list[str]) -> dict[str, str]:

@@ -74,7 +74,8 @@ def _distortion_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
 
     axis = ax.xaxis if which == "x" else ax.yaxis
     (ax.set_xscale if which == "x" else ax.set_yscale)("log")
-    ticks = [t for t in (1, 1.5, 2, 3, 4, 5, 7, 10, 15, 20, 30, 50) if lo - 1e-9 <= t <= hi + 1e-9]
+    steps = (0.1, 0.2, 0.3, 0.5, 0.7, 1, 1.5, 2, 3, 4, 5, 7, 10, 15, 20, 30, 50, 70, 100, 150, 200)
+    ticks = [t for t in steps if lo - 1e-9 <= t <= hi + 1e-9]
     axis.set_major_locator(FixedLocator(ticks or [lo, hi]))
     axis.set_minor_locator(NullLocator())
     axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
@@ -125,7 +126,7 @@ def map_figure(dmap: DesignMap) -> Figure:
     for which, axis_name, g in (("x", dmap.axes[0], X), ("y", dmap.axes[1], Y)):
         if axis_name in ("horizontal_ratio", "vertical_ratio", "velocity_ratio"):
             _ratio_axis(ax, which, float(g[0]), float(g[-1]))
-        elif axis_name == "distortion":
+        elif axis_name in ("distortion", "pressure"):
             _distortion_axis(ax, which, float(g[0]), float(g[-1]))
     ax.set_xlim(X[0], X[-1])
     ax.set_ylim(Y[0], Y[-1])
@@ -409,6 +410,7 @@ def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.nd
         "horizontal_ratio": m.horizontal_ratio,
         "distortion": m.distortion,
         "temperature": (m.temperature[0] - 273.15, m.temperature[1] - 273.15),
+        "pressure": (m.pressure[0] / 1e5, m.pressure[1] / 1e5),
         "velocity_ratio": m.velocity_ratio,
         "vertical_ratio": (
             m.horizontal_ratio[0] * m.distortion[0],
@@ -431,6 +433,8 @@ def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.nd
                 continue
             if axis == "temperature":
                 shown = f"temperature {op} {value:g} degC"
+            elif axis == "pressure":
+                shown = f"pressure {op} {value:g} bar"
             elif axis in names:
                 shown = f"{names[axis]} {op} {format_ratio(value)}"
             else:

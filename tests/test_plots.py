@@ -332,3 +332,14 @@ def test_written_files_and_tables(
     assert "knee" in format_front(front)
     assert "limits.discharge.max" in format_map(dmap)
     assert "water 1:100" in format_sensitivity(sens)
+
+
+def test_caption_says_when_the_solver_design_is_on_the_front() -> None:
+    """The pipe rig's Euler and roughness can both be matched (a single-point front at 0 %, the
+    solver's design): the caption says it lies on the front, and why it need not."""
+    f = trace_front(load_case(ROOT / "cases" / "pipe_rig.toml"), ["euler", "group:roughness"])
+    assert len(f.points) == 1
+    title = front_figure(f).axes[0].get_title(loc="left").replace("\n", " ")
+    assert "lies on this front here; it need not" in title
+    assert "single point" in title
+    assert "lies on this front here" in format_front(f).replace("\n", " ")

@@ -65,16 +65,28 @@ def front_caption(front: Front) -> str:
     what = f"the {primary.label}" if primary is not None else front.primary
     if primary is not None and primary.kind == "group":
         what = f"the {front.primary} mismatch"
-    text = (
-        "Why the solver's design (star) may lie off this front: the solver balances every "
-        "weighted group of the case within all its limits, while each point of the front "
-        f"minimises {what} alone for given values of the other axes."
+    why = (
+        "the solver balances every weighted group of the case within all its limits, while "
+        f"each point of the front minimises {what} alone for given values of the other axes."
     )
+    if _chosen_on_front(front):
+        text = "The solver's design (star) lies on this front here; it need not: " + why
+    else:
+        text = "Why the solver's design (star) may lie off this front: " + why
     if len(lifted) == 1:
         text += f" The case's limit on {lifted[0]} is lifted here (dashed line)."
     elif lifted:
         text += f" The case's limits on {' and '.join(lifted)} are lifted here (dashed lines)."
     return text
+
+
+def _chosen_on_front(front: Front) -> bool:
+    """Whether the solver's design has the values of a point of the front (within 1e-6)."""
+    if front.chosen is None or not front.points:
+        return False
+    c = np.asarray(front.chosen.values, dtype=float)
+    d = np.abs(front.values - c) <= 1e-6 * (1.0 + np.abs(c))
+    return bool(np.any(np.all(d, axis=1)))
 
 
 def front_figure(front: Front, mismatch: str = "percent") -> Figure:

@@ -219,7 +219,7 @@ def map_figure(dmap: DesignMap) -> Figure:
         "#bcbd22",
         "#7f7f7f",
     )
-    placed.extend(_model_bounds(ax, dmap, feasible))
+    placed.extend(_model_bounds(ax, dmap, feasible, list(placed)))
     # one colour per limit; the same limit in a looser condition (key "...@condition") is a
     # thin dotted line of the same colour, without ticks or an on-line label. A boundary that
     # runs on top of one already drawn is dashed, so that the one beneath shows in its gaps.
@@ -399,7 +399,9 @@ def _coincides(mine: np.ndarray, drawn: list[tuple[str, np.ndarray]]) -> str | N
     return None
 
 
-def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.ndarray]:
+def _model_bounds(
+    ax: Axes, dmap: DesignMap, feasible: np.ndarray, avoid: list[np.ndarray]
+) -> list[np.ndarray]:
     """Label each ``[model]`` bound at the frame's edge where it closes the feasible window,
     centred on the window's stretch of that edge; return the labels' boxes in unit
     coordinates (for the other labels to keep clear of)."""
@@ -440,9 +442,11 @@ def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.nd
             else:
                 shown = f"{axis} {op} {value:g}"
             text = f"{shown} [model]"
-            along = float(np.mean(unit[on_edge, 1 - which]))
             pos = 0.0 if end == 0 else 1.0
             w, h = 0.0098 * len(text) + 0.01, 0.045
+            along = _clear_spot(
+                float(np.mean(unit[on_edge, 1 - which])), w, h, which, pos, [*avoid, *boxes]
+            )
             if which == 0:
                 ax.text(
                     pos + (0.006 if end == 0 else -0.006),
@@ -460,7 +464,6 @@ def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.nd
                 x0 = pos if end == 0 else pos - h
                 boxes.append(np.array([x0, x0 + h, along - w / 2, along + w / 2]))
             else:
-                along = min(max(along, w / 2 + 0.01), 1 - w / 2 - 0.01)
                 ax.text(
                     along,
                     pos + (0.008 if end == 0 else -0.008),
@@ -476,6 +479,29 @@ def _model_bounds(ax: Axes, dmap: DesignMap, feasible: np.ndarray) -> list[np.nd
                 y0 = pos if end == 0 else pos - h
                 boxes.append(np.array([along - w / 2, along + w / 2, y0, y0 + h]))
     return boxes
+
+
+def _clear_spot(
+    centre: float, w: float, h: float, which: int, pos: float, avoid: list[np.ndarray]
+) -> float:
+    """Where along a frame edge (unit coordinates) a label ``w`` long and ``h`` deep goes:
+    at ``centre`` if that is clear of the boxes ``avoid``, else the nearest clear spot."""
+    lo, hi = w / 2 + 0.01, 1 - w / 2 - 0.01
+    if hi < lo:
+        return 0.5
+    d0 = pos if pos == 0.0 else pos - h
+    for along in sorted(np.linspace(lo, hi, 41), key=lambda a: (abs(a - centre), a)):
+        box = (
+            np.array([d0, d0 + h, along - w / 2, along + w / 2])
+            if which == 0
+            else np.array([along - w / 2, along + w / 2, d0, d0 + h])
+        )
+        if not any(
+            min(box[1], q[1]) > max(box[0], q[0]) and min(box[3], q[3]) > max(box[2], q[2])
+            for q in avoid
+        ):
+            return float(along)
+    return float(min(max(centre, lo), hi))
 
 
 def _label_line(

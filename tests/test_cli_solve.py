@@ -73,11 +73,34 @@ def test_csv_tables(tmp_path):
     r = RUNNER.invoke(app, ["solve", "cases/river_bend.toml", "--csv", str(out)])
     assert r.exit_code == 0, r.output
     names = sorted(p.name for p in out.iterdir())
-    assert names == ["alternatives.csv", "design.csv", "groups.csv", "limits.csv", "quantities.csv"]
+    assert names == [
+        "alternatives.csv",
+        "consequences.csv",
+        "design.csv",
+        "groups.csv",
+        "limits.csv",
+        "quantities.csv",
+        "regimes.csv",
+        "thresholds.csv",
+    ]
     with (out / "groups.csv").open() as fh:
         rows = list(csv.DictReader(fh))
     assert {r["condition"] for r in rows} == {"low", "mean", "flood"}
     assert {r["group"] for r in rows} >= {"froude", "reynolds"}
+    # the mismatch column names its unit; Froude is kept exactly (a log-ratio of 0)
+    froude = [r for r in rows if r["group"] == "froude"]
+    assert all(abs(float(r["mismatch [ln(model/prototype)]"])) < 1e-12 for r in froude)
+    # the scale-effect tables carry what the text report shows (tests/test_effects.py checks
+    # the values against their sources)
+    answer = json.loads(RUNNER.invoke(app, ["solve", "cases/river_bend.toml", "--json"]).output)
+    for name in ("regimes", "thresholds", "consequences"):
+        with (out / f"{name}.csv").open() as fh:
+            table = list(csv.DictReader(fh))
+        assert len(table) == len(answer["effects"][name]), name
+    with (out / "thresholds.csv").open() as fh:
+        t = next(csv.DictReader(fh))
+    first = answer["effects"]["thresholds"][0]
+    assert t["source"] == first["source"] and float(t["model"]) == first["model"]
 
 
 def test_infeasible_exit_status_and_csv(tmp_path):

@@ -20,6 +20,7 @@ import pytest
 
 from compromise.casefile.load import load_case
 from compromise.casefile.model import Case
+from compromise.errors import CaseError
 from compromise.explore.designmap import DesignMap, design_map
 from compromise.explore.sensitivity import Sensitivity, weight_sensitivity
 from compromise.explore.tradeoffs import Front, trace_front
@@ -72,7 +73,7 @@ def test_front_figure_axes_legend_and_points(front: Front) -> None:
     ax = fig.axes[0]
     assert ax.get_xlabel() == "weighted mismatch [-]"
     assert ax.get_ylabel() == "model discharge (flood) [m^3/s]"
-    entries = _legend(ax)
+    entries = _legend(fig)
     n = len(front.points)
     assert f"water ({n} points)" in entries
     assert {"knee", "solver's design", "case limit: discharge <= 0.15 m^3/s"} <= set(entries)
@@ -82,23 +83,82 @@ def test_front_figure_axes_legend_and_points(front: Front) -> None:
     labels = _texts(ax)
     assert any(t.startswith("knee: water") for t in labels)
     assert any(t.startswith("chosen: water") for t in labels)
+    assert "case limit: discharge <= 0.15 m^3/s (lifted)" in labels  # on the line itself
     assert "Pareto front: total vs discharge" in fig.get_suptitle()
+    assert "may lie off this front" in ax.get_title(loc="left").replace("\n", " ")
 
 
-def test_front_figure_three_axes_draws_the_pairwise_projections(river: Case) -> None:
+def _callout_boxes(fig: Any) -> dict[str, Any]:
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    return {
+        t.get_text().split(":")[0]: t.get_bbox_patch().get_window_extent(r)
+        for t in fig.axes[0].texts
+        if t.get_text().startswith(("knee:", "chosen:"))
+    }
+
+
+@pytest.mark.parametrize(
+    ("case", "axes"),
+    [("river_bend", ["total", "discharge"]), ("towing_tank", ["reynolds", "length"])],
+)
+def test_front_callouts_never_overlap_each_other_nor_the_points(case: str, axes: list[str]) -> None:
+    """The knee's and the chosen design's callout boxes, from the artists' window extents:
+    disjoint, inside the axes, and covering no point of the front."""
+    f = trace_front(load_case(ROOT / "cases" / f"{case}.toml"), axes, points=40)
+    fig = front_figure(f)
+    boxes = _callout_boxes(fig)
+    assert set(boxes) == {"knee", "chosen"}
+    assert not boxes["knee"].overlaps(boxes["chosen"])
+    ax = fig.axes[0]
+    frame = ax.get_window_extent()
+    pts = ax.transData.transform(np.asarray(ax.collections[0].get_offsets()))
+    for box in boxes.values():
+        assert frame.x0 <= box.x0 and box.x1 <= frame.x1 and frame.y0 <= box.y0 <= frame.y1
+        assert not any(box.contains(x, y) for x, y in pts)
+
+
+def test_front_group_axes_in_percent_or_log(river: Case) -> None:
+    """A group's mismatch is shown as % off, 100 (exp|r| - 1); --mismatch log keeps |r|
+    (the definition of a log-ratio, common practice)."""
+    f = trace_front(river, ["reynolds", "discharge"], points=20)
+    fig = front_figure(f)
+    ax = fig.axes[0]
+    assert ax.get_xlabel() == "reynolds: model off the prototype by [%]"
+    shown = np.asarray(ax.collections[0].get_offsets())[:, 0]
+    np.testing.assert_allclose(shown, 100 * (np.exp(f.values[:, 0]) - 1), rtol=1e-12)
+    log = front_figure(f, "log").axes[0]
+    assert log.get_xlabel() == "reynolds mismatch |ln(model/prototype)| [-]"
+    np.testing.assert_allclose(np.asarray(log.collections[0].get_offsets())[:, 0], f.values[:, 0])
+
+
+def test_knee_only_where_the_front_bends() -> None:
+    """The knee (Das 1999: farthest from the line through the extremes) is marked only when it
+    stands 5 % of that line away; the spillway's total vs discharge front is nearly straight."""
+    f = trace_front(load_case(ROOT / "cases" / "spillway.toml"), ["total", "discharge"], points=30)
+    assert f.knee_depth < 0.05 and not f.has_knee
+    fig = front_figure(f)
+    assert "knee" not in _legend(fig)
+    assert not any(t.startswith("knee:") for t in _texts(fig.axes[0]))
+    assert "nearly straight" in fig.axes[0].get_title(loc="left")
+    assert "nearly straight" in format_front(f)
+
+
+def test_front_figure_three_axes_is_one_scatter_coloured_by_the_third(river: Case) -> None:
     front3 = trace_front(river, ["total", "reach", "discharge"], points=50)
     fig = front_figure(front3)
-    axs = fig.axes
-    assert len(axs) == 3
-    pairs = [(a.get_xlabel(), a.get_ylabel()) for a in axs]
-    assert pairs == [
-        ("weighted mismatch [-]", "model reach [m]"),
-        ("weighted mismatch [-]", "model discharge (flood) [m^3/s]"),
-        ("model reach [m]", "model discharge (flood) [m^3/s]"),
-    ]
-    for a in axs:
-        drawn = sum(len(c.get_offsets()) for c in a.collections if "points" in c.get_label())
-        assert drawn == len(front3.points)
+    ax, cbar = fig.axes
+    assert (ax.get_xlabel(), ax.get_ylabel()) == ("weighted mismatch [-]", "model reach [m]")
+    assert cbar.get_ylabel() == "model discharge (flood) [m^3/s]"
+    pts = [c for c in ax.collections if "points" in c.get_label()]
+    assert sum(len(c.get_offsets()) for c in pts) == len(front3.points)
+    np.testing.assert_allclose(pts[0].get_array(), front3.values[:, 2], rtol=1e-12)
+    assert len(fig.legends) == 1 and ax.get_legend() is None  # one legend
+    entries = _legend(fig)
+    assert "case limit: reach <= 40 m" in entries
+    assert "case limit: discharge <= 0.15 m^3/s (on the colour bar)" in entries
+    assert "case limit: reach <= 40 m (lifted)" in _texts(ax)
+    assert "case limit 0.15 m^3/s" in [t.get_text() for t in cbar.texts]
 
 
 def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
@@ -111,10 +171,12 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     assert len(crossing) >= 4
     entries = _legend(fig)
     for b in crossing:
-        if "@" in b.key:  # the same limit in a looser condition: in the legend only
-            assert b.label in entries
-        else:
+        if "@" not in b.key:  # a looser condition's line is named in its limit's entry
             assert b.label + ("  (binds)" if b.binding else "") in texts
+    # one legend entry per limit, its conditions named inside
+    assert "depth >= 0.03 m: low (line); mean, flood (dotted)" in entries
+    assert "reynolds >= 4000: low (line); mean, flood (dotted)" in entries
+    assert len(entries) <= 10
     # every condition's boundary of a limit is drawn (the river's depth floor in three flows)
     assert {"depth >= 0.03 m (low)", "depth >= 0.03 m (mean)", "depth >= 0.03 m (flood)"} <= {
         b.label for b in dmap.boundaries
@@ -124,7 +186,8 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     entries = _legend(fig)
     assert any(e.startswith("optimum: water") for e in entries)
     assert "outside the feasible window (ticks mark the infeasible side)" in entries
-    assert "discharge <= 0.15 m^3/s (flood)  (binds at the optimum)" in entries
+    assert "discharge <= 0.15 m^3/s: flood (line); mean (dotted)  (binds at the optimum)" in entries
+    assert "distortion <= 5 [model]" in texts  # the [model] bound closing the window
     assert {"1:50", "1:75", "1:100", "1:150", "1:200"} <= set(texts)  # preferred ratios
     assert ax.get_xscale() == "log" and ax.get_xticklabels()[0].get_text().startswith("1:")
 
@@ -149,7 +212,99 @@ def test_sensitivity_figure_has_one_bar_per_candidate(sens: Sensitivity) -> None
     assert list(ax.get_yticks()) == list(range(len(labels)))[::-1]
     assert ax.get_xlabel() == "share of the samples in which it is the best design [%]"
     assert any("best at the case's weights" in t for t in _texts(ax))
-    assert _legend(ax) == ["water"]
+    assert _legend(fig) == ["water"]
+
+
+def test_a_sliver_window_is_zoomed_and_full_range_keeps_the_frame() -> None:
+    """The spillway's window spans 2.5 % of the horizontal-ratio range: zoomed by default onto
+    it, the full range on request; the [model] temperature bounds close it at both ends."""
+    case = load_case(ROOT / "cases" / "spillway.toml")
+    zoomed = design_map(case, resolution=31)
+    full = design_map(case, resolution=31, full_range=True)
+    assert zoomed.zoomed == (True, False) and full.zoomed == (False, False)
+    x_full = np.log(full.x[-1] / full.x[0])
+    x_zoom = np.log(zoomed.x[-1] / zoomed.x[0])
+    assert x_zoom < 0.25 * x_full
+    assert full.feasible_share < 0.1 and zoomed.feasible_share > 0.15
+    fig = map_figure(zoomed)
+    assert "zoomed onto the feasible window" in fig.get_suptitle()
+    assert "thin sliver of the horizontal_ratio range (1:100 to 1:10)" in format_map(zoomed)
+    assert "sliver" not in format_map(full)
+    lo, hi = fig.axes[0].get_xlim()
+    assert lo == pytest.approx(zoomed.x[0]) and hi == pytest.approx(zoomed.x[-1])
+    texts = _texts(fig.axes[0])
+    assert {"temperature <= 25 degC [model]", "temperature >= 10 degC [model]"} <= set(texts)
+    # both maps place the optimum at the same design
+    assert zoomed.coordinates(zoomed.optimum) == full.coordinates(full.optimum)
+
+
+def test_pressure_is_a_map_axis_for_the_pressurised_tunnel() -> None:
+    """The wind tunnel lets the air's pressure vary from 1 to 8 bar: the default map is over
+    the horizontal ratio and the pressure. At 1:4 and 12 degC, Reynolds is matched when the
+    pressure makes nu_model = nu_air / 4 (ideal gas: nu ~ 1/p, common practice), about 4 bar,
+    where the solver's optimum sits."""
+    dm = design_map(load_case(ROOT / "cases" / "wind_tunnel.toml"), resolution=31)
+    assert dm.axes == ("horizontal_ratio", "pressure") and dm.units[1] == "bar"
+    x, p = dm.coordinates(dm.optimum)
+    assert x == pytest.approx(0.25) and p == pytest.approx(4.0, rel=0.02)
+    assert dm.grid(1)[0] == pytest.approx(1.0) and dm.grid(1)[-1] == pytest.approx(8.0)
+    fig = map_figure(dm)
+    assert fig.axes[0].get_ylabel() == "model fluid pressure [bar]"
+    assert {"pressure <= 8 bar [model]", "pressure >= 1 bar [model]"} <= set(_texts(fig.axes[0]))
+    with pytest.raises(CaseError, match="pressure"):
+        design_map(load_case(ROOT / "cases" / "river_bend.toml"), ["horizontal_ratio", "pressure"])
+
+
+def test_coincident_boundaries_stay_visible() -> None:
+    """The wind tunnel's chord and span limits fall on the same horizontal ratio (0.4 m and
+    0.6 m at the same 1:4): the second is dashed over the first and says so."""
+    dm = design_map(load_case(ROOT / "cases" / "wind_tunnel.toml"), resolution=31)
+    fig = map_figure(dm)
+    texts = _texts(fig.axes[0])
+    assert any(t.startswith("span <= 0.6 m") and "(on chord <= 0.4 m)" in t for t in texts)
+    styles = {h.get_label(): h.get_linestyle() for h in fig.legends[0].legend_handles}
+    span = next(k for k in styles if k.startswith("span"))
+    assert styles[span] != styles[next(k for k in styles if k.startswith("chord"))]
+
+
+def _svg_text(fig: Any, tmp_path: Path, case: Case) -> str:
+    return save_figure(fig, tmp_path / "f", case)[1].read_text(encoding="utf-8")
+
+
+def test_svg_text_has_every_limit_label_and_the_footer(
+    front: Front, dmap: DesignMap, sens: Sensitivity, river: Case, tmp_path: Path
+) -> None:
+    """Figures as data: the SVG (text kept as text) names every limit drawn and carries the
+    footer (title, version, short hash, caution)."""
+    from compromise.review.provenance import provenance_line
+
+    for fig in (front_figure(front), map_figure(dmap), sensitivity_figure(sens)):
+        svg = _svg_text(fig, tmp_path, river)
+        assert provenance_line(river).replace("^", "^") in svg.replace("&amp;", "&")
+        assert "licensed engineer" in svg
+    svg = _svg_text(map_figure(dmap), tmp_path, river).replace("&gt;", ">").replace("&lt;", "<")
+    for b in dmap.boundaries:
+        if np.any(b.violation > 0) and np.any(b.violation <= 0):
+            assert b.label.rsplit(" (", 1)[0] in svg, b.label
+    svg = _svg_text(front_figure(front), tmp_path, river).replace("&lt;", "<")
+    assert "case limit: discharge <= 0.15 m^3/s (lifted)" in svg
+
+
+def test_sensitivity_labels_stay_inside_the_figure() -> None:
+    """The pipe rig's long candidate names and tied labels end inside the image."""
+    sv = weight_sensitivity(load_case(ROOT / "cases" / "pipe_rig.toml"), samples=50, seed=0)
+    fig = sensitivity_figure(sv)
+    fig.canvas.draw()
+    r = fig.canvas.get_renderer()
+    page = fig.bbox
+    ax = fig.axes[0]
+    for t in [*ax.texts, *ax.get_yticklabels(), *fig.legends[0].get_texts()]:
+        e = t.get_window_extent(r)
+        assert page.x0 <= e.x0 and e.x1 <= page.x1, t.get_text()
+    frame = ax.get_window_extent(r)
+    assert all(t.get_window_extent(r).x1 <= frame.x1 for t in ax.texts)
+    assert "every candidate is tied" in fig.get_suptitle()
+    assert all(t.get_text() == "tied 100.0 %" for t in ax.texts)
 
 
 def test_svg_and_png_are_byte_for_byte_reproducible(front: Front, tmp_path: Path) -> None:
@@ -177,3 +332,14 @@ def test_written_files_and_tables(
     assert "knee" in format_front(front)
     assert "limits.discharge.max" in format_map(dmap)
     assert "water 1:100" in format_sensitivity(sens)
+
+
+def test_caption_says_when_the_solver_design_is_on_the_front() -> None:
+    """The pipe rig's Euler and roughness can both be matched (a single-point front at 0 %, the
+    solver's design): the caption says it lies on the front, and why it need not."""
+    f = trace_front(load_case(ROOT / "cases" / "pipe_rig.toml"), ["euler", "group:roughness"])
+    assert len(f.points) == 1
+    title = front_figure(f).axes[0].get_title(loc="left").replace("\n", " ")
+    assert "lies on this front here; it need not" in title
+    assert "single point" in title
+    assert "lies on this front here" in format_front(f).replace("\n", " ")

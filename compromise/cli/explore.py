@@ -70,22 +70,37 @@ def tradeoff(
             "relaxing them buys.",
         ),
     ] = False,
+    mismatch: Annotated[
+        str,
+        typer.Option(
+            "--mismatch",
+            help="How the figure shows a group's mismatch: 'percent' (how far the model's "
+            "value is off the prototype's) or 'log' (|ln(model/prototype)|). The CSV and JSON "
+            "keep |ln|.",
+            show_default=True,
+        ),
+    ] = "percent",
     out: OutOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
 
     def body() -> int:
+        from compromise.errors import CaseError
         from compromise.explore.tradeoffs import trace_front
         from compromise.outfiles import check_output_folder
         from compromise.presentation.explore_tables import format_front, write_front
         from compromise.review.provenance import stamped
 
+        if mismatch not in ("percent", "log"):
+            raise CaseError(
+                f"--mismatch must be 'percent' or 'log', not '{mismatch}'", key="--mismatch"
+            )
         check_output_folder(out or Path("out") / case.stem)
         front = trace_front(
             _load(case), _axes_list(between, more), points=points, lift=not keep_limits
         )
-        paths = write_front(front, out or Path("out") / case.stem)
+        paths = write_front(front, out or Path("out") / case.stem, mismatch)
         if json_out:
             _print_json(stamped(front.to_dict(), front.case))
         else:
@@ -105,11 +120,11 @@ def map_(
         typer.Option(
             "--axes",
             help="Two decision variables among horizontal_ratio, "
-            "vertical_ratio, distortion, velocity_ratio and temperature: --axes "
+            "vertical_ratio, distortion, velocity_ratio, temperature and pressure: --axes "
             "horizontal_ratio distortion (default: those two when the case allows "
-            "distortion, else horizontal_ratio and temperature). A case with "
-            "[sediment] maps grain_size against a ratio (default horizontal_ratio "
-            "grain_size).",
+            "distortion, else horizontal_ratio and pressure when a gas's pressure may vary, "
+            "else horizontal_ratio and temperature). A case with [sediment] maps grain_size "
+            "against a ratio (default horizontal_ratio grain_size).",
             show_default=False,
         ),
     ] = None,
@@ -128,6 +143,14 @@ def map_(
     resolution: Annotated[
         int, typer.Option("--resolution", min=11, max=401, help="Grid points per axis.")
     ] = 81,
+    full_range: Annotated[
+        bool,
+        typer.Option(
+            "--full-range",
+            help="Draw each axis over its whole range; by default an axis on which the "
+            "feasible window is a thin sliver (under a fifth of the range) is zoomed onto it.",
+        ),
+    ] = False,
     out: OutOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
@@ -141,7 +164,9 @@ def map_(
 
         check_output_folder(out or Path("out") / case.stem)
         names = _axes_list(axes, more)
-        dmap = design_map(_load(case), names or None, fluid=fluid, resolution=resolution)
+        dmap = design_map(
+            _load(case), names or None, fluid=fluid, resolution=resolution, full_range=full_range
+        )
         paths = write_map(dmap, out or Path("out") / case.stem)
         if json_out:
             _print_json(stamped(dmap.to_dict(), dmap.case))

@@ -38,7 +38,10 @@ MAP_AXES: dict[str, tuple[str, str]] = {
     "velocity_ratio": ("velocity ratio V (model / prototype)", "-"),
     "temperature": ("model fluid temperature", "degC"),
     "grain_size": ("model grain size d", "mm"),
+    "pressure": ("model fluid pressure", "bar"),
 }
+#: Axes that are the fluid's state, not a ratio (searched, not fixed by extra equality rows).
+STATE_AXES = ("temperature", "pressure")
 _NORMALS = {
     "horizontal_ratio": np.array([1.0, 0.0, 0.0]),
     "vertical_ratio": np.array([0.0, 1.0, 0.0]),
@@ -46,6 +49,10 @@ _NORMALS = {
     "velocity_ratio": np.array([0.0, 0.0, 1.0]),
 }
 MAP_ZOOM_ROUNDS = 3
+#: A feasible window narrower than this share of an axis's range (log for ratios) is a sliver:
+#: by default the map zooms that axis onto it (common practice for a readable figure).
+SLIVER = 0.2
+SCOUT_RESOLUTION = 41
 
 
 @dataclass(frozen=True)
@@ -113,6 +120,8 @@ class DesignMap:
     optimum: Design | None
     optimum_objective: float
     preferred: tuple[tuple[str, Design | None, float], ...]
+    full_ranges: tuple[tuple[float, float], ...] = ()
+    zoomed: tuple[bool, bool] = (False, False)
 
     @property
     def labels(self) -> tuple[str, str]:
@@ -138,7 +147,9 @@ class DesignMap:
         g = self.x if which == 0 else self.y
         if self.axes[which] == "grain_size":
             return g * 1e3
-        return g - 273.15 if self.axes[which] == "temperature" else g
+        if self.axes[which] == "temperature":
+            return g - 273.15
+        return g / 1e5 if self.axes[which] == "pressure" else g
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data (SI, degC, ratios model/prototype); the grid as nested lists."""
@@ -157,6 +168,7 @@ class DesignMap:
             "y": self.grid(1).tolist(),
             "objective": [[opt(v) for v in row] for row in self.objective],
             "feasible_share": self.feasible_share,
+            "zoomed": list(self.zoomed),
             "limits": {
                 b.key: {"label": b.label, "binding": b.binding, "excluded": b.excluded}
                 for b in self.boundaries
@@ -183,6 +195,8 @@ class DesignMap:
 def _coordinate(design: Design, axis: str) -> float:
     if axis == "temperature":
         return design.temperature - 273.15
+    if axis == "pressure":
+        return design.pressure / 1e5
     if axis == "distortion":
         return design.distortion
     if axis == "grain_size":
@@ -192,15 +206,27 @@ def _coordinate(design: Design, axis: str) -> float:
 
 def default_axes(case: Case) -> tuple[str, str]:
     """``horizontal_ratio`` and ``distortion`` when the case allows distortion, else
-    ``horizontal_ratio`` and ``temperature`` (``velocity_ratio`` when the temperature is
-    fixed too); ``horizontal_ratio`` and ``grain_size`` in a case with ``[sediment]``."""
+    ``horizontal_ratio`` and ``pressure`` when a gas's pressure may vary (a pressurised
+    tunnel's key decision), else ``horizontal_ratio`` and ``temperature``
+    (``velocity_ratio`` when the temperature is fixed too); ``horizontal_ratio`` and
+    ``grain_size`` in a case with ``[sediment]``."""
     if case.sediment is not None:
         return "horizontal_ratio", "grain_size"
     if case.model.distortion[1] > case.model.distortion[0]:
         return "horizontal_ratio", "distortion"
+    if case.model.pressure[1] > case.model.pressure[0] and _pressure_matters(case):
+        return "horizontal_ratio", "pressure"
     if case.model.temperature[1] > case.model.temperature[0]:
         return "horizontal_ratio", "temperature"
     return "horizontal_ratio", "velocity_ratio"
+
+
+def _pressure_matters(case: Case) -> bool:
+    """Whether some fluid of the case has properties that depend on its pressure (a gas)."""
+    from compromise.solving.problem import build_problem
+
+    used = build_problem(case).used_properties
+    return any(FluidStates(case, f, used).pressures().size > 1 for f in case.model.fluids)
 
 
 def row_label(case: Case, row: Row) -> str:
@@ -224,6 +250,7 @@ def _range(
         "horizontal_ratio": m.horizontal_ratio,
         "distortion": m.distortion,
         "temperature": m.temperature,
+        "pressure": m.pressure,
         "vertical_ratio": (
             m.horizontal_ratio[0] * m.distortion[0],
             m.horizontal_ratio[1] * m.distortion[1],
@@ -271,6 +298,7 @@ def design_map(
     fluid: str | None = None,
     resolution: int = 81,
     n_temperatures: int = 24,
+    full_range: bool = False,
 ) -> DesignMap:
     """The design-space map of a case (see the module docstring).
 
@@ -279,13 +307,17 @@ def design_map(
     case : Case
     axes : (str, str), optional
         Two of ``horizontal_ratio``, ``vertical_ratio``, ``distortion``, ``velocity_ratio``,
-        ``temperature``; default :func:`default_axes`.
+        ``temperature``, ``pressure``; default :func:`default_axes`.
     fluid : str, optional
         The model fluid (default: the solver's choice).
     resolution : int
         Grid points per axis.
     n_temperatures : int
         Temperature grid before the zoom (when temperature is not an axis).
+    full_range : bool
+        Draw each axis over its whole range. By default an axis on which the feasible window
+        is a sliver (narrower than :data:`SLIVER` of the range, found on a coarse scouting
+        grid) is zoomed onto the window, with half its width as margin on either side.
 
     Returns
     -------
@@ -328,6 +360,7 @@ def design_map(
         "horizontal_ratio": m.horizontal_ratio,
         "distortion": m.distortion,
         "temperature": m.temperature,
+        "pressure": m.pressure,
         "velocity_ratio": m.velocity_ratio or (0.0, 1.0),
     }
     for a in axes:
@@ -338,7 +371,13 @@ def design_map(
                 file=case.path,
                 key=f"model.{a}",
             )
-    normals = [_NORMALS[a] for a in axes if a != "temperature"]
+    if all(a in STATE_AXES for a in axes):
+        raise CaseError(
+            "one axis of the map must be a ratio (horizontal_ratio, vertical_ratio, "
+            "distortion or velocity_ratio)",
+            key="--axes",
+        )
+    normals = [_NORMALS[a] for a in axes if a not in STATE_AXES]
     extra = np.array(normals).reshape(len(normals), 3)
     rank_e = np.linalg.matrix_rank(problem.E) if problem.E.size else 0
     if np.linalg.matrix_rank(np.vstack([problem.E, extra])) < rank_e + len(normals):
@@ -360,6 +399,12 @@ def design_map(
             )
     fs = FluidStates(case, fluid, problem.used_properties)
     space = StateSpace(fs)
+    if "pressure" in axes and not space.variable_pressure:
+        raise CaseError(
+            f"the properties of {fluid} do not depend on its pressure here, so the pressure "
+            "cannot be a map axis",
+            key="--axes",
+        )
     engine = Engine(problem)
     opt = best_state(engine, fs)
     optimum = (
@@ -367,34 +412,47 @@ def design_map(
         if opt is None
         else Design(fluid, opt.temperature, opt.pressure, *(math.exp(float(v)) for v in opt.y))
     )
-    ranges = [_range(case, problem, a, fs, opt.y if opt else None) for a in axes]
-    grids = [
-        np.linspace(lo, hi, resolution) if a == "temperature" else np.geomspace(lo, hi, resolution)
-        for a, (lo, hi) in zip(axes, ranges, strict=True)
-    ]
-    gx, gy = np.meshgrid(grids[0], grids[1])  # (ny, nx)
-    cells = np.column_stack([gx.ravel(), gy.ravel()])
-    t_fixed = None
-    ratio_cols = [i for i, a in enumerate(axes) if a != "temperature"]
-    if len(ratio_cols) < 2:
-        t_fixed = cells[:, 1 - ratio_cols[0]]
-    extra_e = np.log(cells[:, ratio_cols])
+    full = [_range(case, problem, a, fs, opt.y if opt else None) for a in axes]
     map_engine = Engine(problem, extra_E=extra)
     qp = SmallQP(map_engine.H, problem.G, np.vstack([problem.E, extra]))
+    ratio_cols = [i for i, a in enumerate(axes) if a not in STATE_AXES]
 
-    def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
-        f, h, e, _ = map_engine.linear_terms(p, extra_e=extra_e[items])
-        y = qp.solve(f, h, e).y
-        return map_engine.true_objective(y, p)
+    def window(ranges: list[tuple[float, float]], n: int) -> tuple[Any, ...]:
+        grids = [
+            np.linspace(lo, hi, n) if a == "temperature" else np.geomspace(lo, hi, n)
+            for a, (lo, hi) in zip(axes, ranges, strict=True)
+        ]
+        gx, gy = np.meshgrid(grids[0], grids[1])  # (ny, nx)
+        cells = np.column_stack([gx.ravel(), gy.ravel()])
+        t_fixed = cells[:, axes.index("temperature")] if "temperature" in axes else None
+        lp_fixed = np.log(cells[:, axes.index("pressure")]) if "pressure" in axes else None
+        extra_e = np.log(cells[:, ratio_cols])
 
-    T, _, obj = lower_envelope(
-        [space],
-        np.zeros(len(cells), dtype=int),
-        objective,
-        n_temperatures=n_temperatures,
-        temperature=t_fixed,
-        zoom_rounds=MAP_ZOOM_ROUNDS,
-    )
+        def objective(items: np.ndarray, p: np.ndarray) -> np.ndarray:
+            f, h, e, _ = map_engine.linear_terms(p, extra_e=extra_e[items])
+            y = qp.solve(f, h, e).y
+            return map_engine.true_objective(y, p)
+
+        T, _, obj = lower_envelope(
+            [space],
+            np.zeros(len(cells), dtype=int),
+            objective,
+            n_temperatures=n_temperatures,
+            temperature=t_fixed,
+            zoom_rounds=MAP_ZOOM_ROUNDS,
+            log_pressure=lp_fixed,
+        )
+        return grids, gx, (t_fixed, lp_fixed), extra_e, T, obj
+
+    ranges = list(full)
+    zoomed = [False, False]
+    if not full_range:
+        scout = window(full, min(resolution, SCOUT_RESOLUTION))
+        ranges, zoomed = _zoom(axes, full, scout[0], np.isfinite(scout[5]).reshape(scout[1].shape))
+    if zoomed == [False, False] and resolution <= SCOUT_RESOLUTION and not full_range:
+        grids, gx, state_fixed, extra_e, T, obj = scout
+    else:
+        grids, gx, state_fixed, extra_e, T, obj = window(ranges, resolution)
     shape = gx.shape
     h_opt = None if opt is None else problem.rhs(fs.exact_p(opt.temperature, opt.pressure))[0]
     boundaries = _boundaries(
@@ -404,7 +462,7 @@ def design_map(
         space,
         extra,
         extra_e,
-        t_fixed,
+        state_fixed,
         n_temperatures,
         shape,
         None if opt is None else (opt.y, h_opt),
@@ -422,7 +480,42 @@ def design_map(
         optimum,
         opt.objective if opt else math.inf,
         preferred,
+        tuple(full),
+        (zoomed[0], zoomed[1]),
     )
+
+
+def _zoom(
+    axes: tuple[str, ...],
+    full: list[tuple[float, float]],
+    grids: list[np.ndarray],
+    feasible: np.ndarray,
+) -> tuple[list[tuple[float, float]], list[bool]]:
+    """The ranges of the map: an axis on which the feasible cells of the scouting grid span
+    less than :data:`SLIVER` of the range is narrowed to them, one scouting cell and half the
+    window's width added on either side (within the full range)."""
+    ranges, zoomed = list(full), [False, False]
+    if not feasible.any():
+        return ranges, zoomed
+    for which in (0, 1):
+        g = grids[which]
+        lin = axes[which] == "temperature"
+        t = g if lin else np.log(g)
+        hit = np.nonzero(feasible.any(axis=0 if which == 0 else 1))[0]
+        i0, i1 = max(int(hit[0]) - 1, 0), min(int(hit[-1]) + 1, len(g) - 1)
+        span = float(t[-1] - t[0])
+        width = float(t[i1] - t[i0])
+        if span <= 0 or width >= SLIVER * span:
+            continue
+        lo, hi = float(t[i0]) - 0.5 * width, float(t[i1]) + 0.5 * width
+        lo, hi = max(lo, float(t[0])), min(hi, float(t[-1]))
+        ranges[which] = (lo, hi) if lin else (math.exp(lo), math.exp(hi))
+        if lo <= t[0] + 1e-12 * max(1.0, abs(t[0])):
+            ranges[which] = (full[which][0], ranges[which][1])
+        if hi >= t[-1] - 1e-12 * max(1.0, abs(t[-1])):
+            ranges[which] = (ranges[which][0], full[which][1])
+        zoomed[which] = True
+    return ranges, zoomed
 
 
 def _boundaries(
@@ -432,7 +525,7 @@ def _boundaries(
     space: StateSpace,
     extra: np.ndarray,
     extra_e: np.ndarray,
-    t_fixed: np.ndarray | None,
+    state_fixed: tuple[np.ndarray | None, np.ndarray | None],
     n_temperatures: int,
     shape: tuple[int, ...],
     at_optimum: tuple[np.ndarray, np.ndarray] | None,
@@ -467,8 +560,9 @@ def _boundaries(
             np.zeros(extra_e.shape[0], dtype=int),
             violation,
             n_temperatures=n_temperatures,
-            temperature=t_fixed,
+            temperature=state_fixed[0],
             zoom_rounds=0,
+            log_pressure=state_fixed[1],
         )
         binding = False
         if at_optimum is not None:

@@ -80,6 +80,7 @@ def lower_envelope(
     n_temperatures: int = 24,
     temperature: np.ndarray | None = None,
     zoom_rounds: int = ZOOM_ROUNDS,
+    log_pressure: np.ndarray | None = None,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Minimise ``evaluate`` over the fluid state of every item: grid, then zoom.
 
@@ -98,6 +99,8 @@ def lower_envelope(
         A fixed temperature per item [K] (no search over temperature).
     zoom_rounds : int
         Rounds of the zoom; each one shrinks the interval fourfold.
+    log_pressure : (I,) array, optional
+        A fixed log-pressure per item [ln Pa] (no search over pressure; a map's pressure axis).
 
     Returns
     -------
@@ -123,17 +126,20 @@ def lower_envelope(
             grid = np.linspace(lo, hi, n_temperatures) if hi > lo else np.array([lo])
         else:
             grid = np.array([0.0])
-        gt, gp = np.meshgrid(grid, sp.lnp, indexing="ij")
+        gt, gp = np.meshgrid(grid, sp.lnp if log_pressure is None else [0.0], indexing="ij")
         gt, gp = gt.ravel(), gp.ravel()
         ng = gt.size
         it = np.repeat(items, ng)
         T = np.tile(gt, items.size) if temperature is None else np.repeat(temperature[items], ng)
-        lp = np.tile(gp, items.size)
-        p = np.tile(sp.p(gt, gp), (items.size, 1)) if temperature is None else sp.p(T, lp)
+        lp = np.tile(gp, items.size) if log_pressure is None else np.repeat(log_pressure[items], ng)
+        if temperature is None and log_pressure is None:
+            p = np.tile(sp.p(gt, gp), (items.size, 1))
+        else:
+            p = sp.p(T, lp)
         parts.append((items, ng, it, T, lp, p))
         if temperature is None and grid.size > 1:
             step_t[items] = grid[1] - grid[0]
-        if sp.variable_pressure:
+        if sp.variable_pressure and log_pressure is None:
             step_p[items] = sp.lnp[1] - sp.lnp[0]
     if parts:
         values = evaluate(np.concatenate([x[2] for x in parts]), np.vstack([x[5] for x in parts]))

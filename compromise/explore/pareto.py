@@ -103,6 +103,45 @@ def knee_index(values: np.ndarray) -> int:
     return int(np.argmax(dist))
 
 
+def knee_depth(values: np.ndarray, knee: int) -> float:
+    """How far the knee ``knee`` stands out: its distance from the line (two axes) through the
+    front's two extreme points, in axes normalised to [0, 1] over the front, over the length of
+    that line (Das 1999). 0 for a straight front; an L-shaped front approaches 0.5 (the corner
+    of a unit square over its diagonal). For three axes, the distance from the plane through the
+    extremes (the same normalisation as :func:`knee_index`). 0 with fewer than three points.
+
+    Examples
+    --------
+    >>> round(knee_depth(np.array([[0.0, 1.0], [0.5, 0.5], [1.0, 0.0]]), 1), 12)
+    0.0
+    >>> round(knee_depth(np.array([[0.0, 1.0], [0.05, 0.05], [1.0, 0.0]]), 1), 6)
+    0.45
+    """
+    v = np.asarray(values, dtype=float)
+    if v.shape[0] < 3 or knee < 0:
+        return 0.0
+    lo, span = v.min(axis=0), np.ptp(v, axis=0)
+    if np.count_nonzero(span) < v.shape[1]:
+        return 0.0
+    u = (v - lo) / span
+    k = u.shape[1]
+    ext = np.array([u[np.lexsort((u.sum(axis=1), u[:, j]))[0]] for j in range(k)])
+    if k == 2:
+        d = ext[1] - ext[0]
+        length = float(np.hypot(*d))
+        if length == 0.0:
+            return 0.0
+        w = u[knee] - ext[0]
+        return abs(float(d[0] * w[1] - d[1] * w[0])) / length**2
+    normal = np.ones(k)
+    if np.linalg.matrix_rank(ext) == k:
+        normal = np.linalg.solve(ext, np.ones(k))
+    if not np.all(np.isfinite(normal)) or np.all(normal <= 0):
+        normal = np.ones(k)
+    offset = float(np.mean(ext @ normal))
+    return abs(offset - float(u[knee] @ normal)) / float(np.linalg.norm(normal)) / math.sqrt(k)
+
+
 def gd_plus(points: np.ndarray, reference: np.ndarray) -> float:
     """Generational distance plus (Ishibuchi et al. 2015) of ``points`` to ``reference``.
 

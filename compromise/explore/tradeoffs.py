@@ -63,7 +63,14 @@ from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.axes import Axis, axes_for, state_spaces
 from compromise.explore.envelope import StateSpace, lower_envelope
-from compromise.explore.pareto import TOL, gd_plus, hypervolume, knee_index, nondominated
+from compromise.explore.pareto import (
+    TOL,
+    gd_plus,
+    hypervolume,
+    knee_depth,
+    knee_index,
+    nondominated,
+)
 from compromise.physics.scaling import N_DECISION
 from compromise.solving.design import Design
 from compromise.solving.grid import REGULARISATION
@@ -84,6 +91,9 @@ __all__ = [
     "trace_front",
 ]
 
+#: A front whose knee stands out less than this (:func:`knee_depth`, a share of the line through
+#: the extremes) is called nearly straight and gets no knee; common practice for a visible bend.
+KNEE_MIN_DEPTH = 0.05
 SECONDARY = 1e-7  # relative weight of the other axes in the objective (see the module docstring)
 N_PILOT = 17
 MAX_GRID = 40  # epsilon values per axis, at most, with three axes
@@ -276,6 +286,17 @@ class Front:
     def values(self) -> np.ndarray:
         """(n, axes) array of the points' values."""
         return np.array([pt.values for pt in self.points]).reshape(len(self.points), len(self.axes))
+
+    @property
+    def knee_depth(self) -> float:
+        """How far the knee stands out from the line through the extremes (:func:`knee_depth`)."""
+        return knee_depth(self.values, self.knee)
+
+    @property
+    def has_knee(self) -> bool:
+        """Whether the front bends enough to have a knee worth marking: three points or more
+        and a knee depth of at least :data:`KNEE_MIN_DEPTH`."""
+        return len(self.points) >= 3 and self.knee_depth >= KNEE_MIN_DEPTH
 
     def to_dict(self) -> dict[str, Any]:
         """Plain data following the output contract of ``compromise tradeoff --json``; a

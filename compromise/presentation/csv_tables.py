@@ -1,4 +1,5 @@
-"""CSV files of a solution: design, groups, limits, quantities, alternatives (or conflict)."""
+"""CSV files of a solution: design, groups, limits, quantities, alternatives (or conflict), and
+the scale effects' regimes, thresholds and consequences."""
 
 from __future__ import annotations
 
@@ -14,8 +15,11 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
     """Write the tables of a solution (``to_dict()`` form) as CSV files into ``folder``.
 
     Files: ``design.csv``, ``groups.csv``, ``limits.csv``, ``quantities.csv``,
-    ``alternatives.csv`` (and ``conflict.csv`` when infeasible). Values are in the units of
-    ``sol`` (SI as computed, or as :func:`compromise.presentation.display.to_display` made
+    ``alternatives.csv`` (and ``conflict.csv`` when infeasible); with the scale effects,
+    ``regimes.csv``, ``thresholds.csv`` and ``consequences.csv``, as in the text report. The
+    groups' mismatch is the log-ratio ``ln(model/prototype)``, and its header says so. Values
+    are in the units of ``sol`` (SI as computed, or as
+    :func:`compromise.presentation.display.to_display` made
     them); the ``unit`` columns and the design's headers say which. Each file goes through
     :mod:`compromise.outfiles` (temporary name, then rename).
     """
@@ -47,7 +51,15 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
                     [cname, n, g["prototype"], g["model"], g["mismatch"], g["factor"], g["weight"]]
                 )
         tables["groups"] = (
-            ["condition", "group", "prototype", "model", "mismatch", "factor", "weight"],
+            [
+                "condition",
+                "group",
+                "prototype",
+                "model",
+                "mismatch [ln(model/prototype)]",
+                "factor [model/prototype]",
+                "weight",
+            ],
             rows,
         )
         rows = [
@@ -115,6 +127,7 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
         ],
         rows,
     )
+    tables.update(_effect_tables(sol.get("effects") or {}))
     written = []
     for name, (head, rows) in tables.items():
         buf = io.StringIO()
@@ -126,3 +139,61 @@ def write_csv(sol: dict[str, Any], folder: Any) -> list[str]:
         write_text(target, buf.getvalue())
         written.append(str(target))
     return written
+
+
+REGIME_HEAD = ["group", "kind", "condition", "prototype", "model", "changed"]
+THRESHOLD_HEAD = [
+    "phenomenon",
+    "name",
+    "label",
+    "condition",
+    "kind",
+    "prototype",
+    "model",
+    "failing",
+    "passing",
+    "unit",
+    "verdict",
+    "margin",
+    "source",
+    "status",
+]
+
+
+def _effect_tables(eff: dict[str, Any]) -> dict[str, tuple[list[str], list[list[Any]]]]:
+    """The scale effects' regimes, thresholds and consequences as tables (only those present).
+
+    A regime row adds the roughness Reynolds numbers when the regime has them; a consequence
+    row has its kind, condition, flag and message, then every number the kind carries (the
+    columns are the union over the rows, in the order first met, so the file is stable).
+    """
+    out: dict[str, tuple[list[str], list[list[Any]]]] = {}
+    regimes = eff.get("regimes") or []
+    if regimes:
+        head = [*REGIME_HEAD, "roughness_reynolds_prototype", "roughness_reynolds_model"]
+        rows = []
+        for r in regimes:
+            rr = r.get("roughness_reynolds") or {}
+            rows.append([r.get(k) for k in REGIME_HEAD] + [rr.get("prototype"), rr.get("model")])
+        out["regimes"] = (head, rows)
+    thresholds = eff.get("thresholds") or []
+    if thresholds:
+        out["thresholds"] = (
+            THRESHOLD_HEAD,
+            [[t.get(k) for k in THRESHOLD_HEAD] for t in thresholds],
+        )
+    consequences = eff.get("consequences") or []
+    if consequences:
+        first = ["kind", "condition", "flag", "message"]
+        extra = list(
+            dict.fromkeys(k for c in consequences for k in c if k not in first and _scalar(c[k]))
+        )
+        out["consequences"] = (
+            first + extra,
+            [[c.get(k) for k in first + extra] for c in consequences],
+        )
+    return out
+
+
+def _scalar(v: Any) -> bool:
+    return v is None or isinstance(v, (str, int, float, bool))

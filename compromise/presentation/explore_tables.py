@@ -38,8 +38,10 @@ def _short(design: Any) -> str:
     return short_label(design)
 
 
-def write_front(front: Front, folder: str | Path) -> list[Path]:
-    """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
+def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> list[Path]:
+    """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths. The CSV
+    keeps the axes' own units (a group's ``|ln(model/prototype)|``); the figure shows a group's
+    mismatch in % unless ``mismatch`` is ``"log"``."""
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / ("tradeoff_" + "_".join(front.names))
@@ -59,7 +61,8 @@ def write_front(front: Front, folder: str | Path) -> list[Path]:
     with atomic_output(path) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(head)
-        rows = [("knee" if i == front.knee else "front", pt) for i, pt in enumerate(front.points)]
+        knee = front.knee if front.has_knee else -1
+        rows = [("knee" if i == knee else "front", pt) for i, pt in enumerate(front.points)]
         if front.chosen is not None:
             rows.append(("chosen", front.chosen))
         for role, pt in rows:
@@ -77,7 +80,9 @@ def write_front(front: Front, folder: str | Path) -> list[Path]:
                     repr(d.distortion),
                 ]
             )
-    return [path, *_save("front_figure", front, stem)]
+    from compromise.presentation import plots
+
+    return [path, *plots.save_figure(plots.front_figure(front, mismatch), stem, front.case)]
 
 
 def _shown(front: Front, values: Any) -> list[Any]:
@@ -107,7 +112,8 @@ def format_front(front: Front, rows: int = 12) -> str:
     out.append("")
     n = len(front.points)
     step = max(1, math.ceil(n / rows))
-    show = sorted({*range(0, n, step), n - 1, front.knee})
+    knee = front.knee if front.has_knee else -1
+    show = sorted({*range(0, n, step), n - 1, *([knee] if knee >= 0 else [])})
     head = [
         "#",
         *(f"{a.name} [{a.unit}]" for a in front.axes),
@@ -131,7 +137,7 @@ def format_front(front: Front, rows: int = 12) -> str:
                 format_ratio(d.horizontal_ratio),
                 d.distortion,
                 format_ratio(d.velocity_ratio),
-                "knee" if i == front.knee else "",
+                "knee" if i == knee else "",
             ]
         )
     if front.chosen is not None:
@@ -149,8 +155,17 @@ def format_front(front: Front, rows: int = 12) -> str:
             ]
         )
     out.append(table(head, body))
+    from compromise.presentation.front_plot import front_caption
+
     if n == 1:
         out.append("\nThe front is a single point: one design is best on every axis.")
+    elif n >= 3 and knee < 0:
+        out.append(
+            f"\nThe front is nearly straight (its bend is {100 * front.knee_depth:.1f} % of the "
+            "line through its ends): it has no knee."
+        )
+    if front.chosen is not None:
+        out += ["", *textwrap.wrap(front_caption(front), 96)]
     out += ["", CAUTION]
     return "\n".join(out)
 
@@ -196,6 +211,18 @@ def format_map(dmap: DesignMap) -> str:
         f"Design-space map over {dmap.axes[0]} and {dmap.axes[1]}, model fluid {dmap.fluid}:"
         f" {100 * dmap.feasible_share:.1f} % of the map is feasible.",
     ]
+    for i in (0, 1):
+        if dmap.zoomed and dmap.zoomed[i]:
+            lo, hi = dmap.full_ranges[i]
+            shown = (
+                f"{lo - 273.15:g} to {hi - 273.15:g} degC"
+                if dmap.axes[i] == "temperature"
+                else f"{format_ratio(lo)} to {format_ratio(hi)}"
+            )
+            out.append(
+                f"The feasible window is a thin sliver of the {dmap.axes[i]} range ({shown}): "
+                "the map is zoomed onto it (--full-range for the whole range)."
+            )
     if dmap.optimum is not None:
         out.append(
             f"Optimum: {_short(dmap.optimum)} (weighted mismatch "

@@ -15,12 +15,14 @@ from typing import TYPE_CHECKING
 
 from compromise.review.provenance import provenance_line, tool_version
 from compromise.review.wording import caution_line
+from compromise.units import format_ratio
 
 if TYPE_CHECKING:
     from matplotlib.figure import Figure
     from matplotlib.legend import Legend
 
     from compromise.casefile.model import Case
+    from compromise.solving.design import Design
 
 COLOURS = (
     "#1f77b4",
@@ -38,6 +40,17 @@ COLOURS = (
 FOOTER_SIZE = 6.5  # [pt]
 FOOTER_COLOUR = "0.35"
 LINE_SPACING = 1.3  # [-] of the font size
+
+
+def short_label(design: Design) -> str:
+    """``water 30.0 degC, 1:94, distortion 4.38``."""
+    ratios = format_ratio(design.horizontal_ratio)
+    if abs(design.distortion - 1.0) > 1e-6:
+        ratios += f", distortion {design.distortion:.2f}"
+    state = f"{design.temperature - 273.15:.1f} degC"
+    if abs(design.pressure / 101325.0 - 1.0) > 0.01:  # a pressurised (or evacuated) fluid
+        state += f" {design.pressure / 1e5:.3g} bar"
+    return f"{design.fluid} {state}, {ratios}"
 
 
 def fluid_colours(fluids: tuple[str, ...] | list[str]) -> dict[str, str]:

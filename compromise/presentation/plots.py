@@ -13,7 +13,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from compromise.presentation.figures import add_footer, fluid_colours, new_figure, save_figure
+from compromise.presentation.figures import add_footer, new_figure, save_figure, short_label
+from compromise.presentation.front_plot import front_figure
 from compromise.presentation.sensitivity_plot import sensitivity_figure
 
 __all__ = ["front_figure", "map_figure", "save_figure", "sensitivity_figure", "short_label"]
@@ -25,137 +26,8 @@ if TYPE_CHECKING:
     from matplotlib.figure import Figure
 
     from compromise.explore.designmap import DesignMap
-    from compromise.explore.tradeoffs import Front
-    from compromise.solving.design import Design
 
 LINE_STYLES = ("-", "--", "-.", ":")
-
-
-def short_label(design: Design) -> str:
-    """``water 30.0 degC, 1:94, distortion 4.38``."""
-    ratios = format_ratio(design.horizontal_ratio)
-    if abs(design.distortion - 1.0) > 1e-6:
-        ratios += f", distortion {design.distortion:.2f}"
-    return f"{design.fluid} {design.temperature - 273.15:.1f} degC, {ratios}"
-
-
-# --------------------------------------------------------------------------------------------
-# fronts
-
-
-def front_figure(front: Front) -> Figure:
-    """The Pareto front: points coloured by fluid, the knee and the solver's design labelled,
-    units on the axes; with three axes, the three pairwise projections."""
-    k = len(front.axes)
-    pairs = [(0, 1)] if k == 2 else [(0, 1), (0, 2), (1, 2)]
-    fig = new_figure(7.5 if k == 2 else 15.0, 5.6 if k == 2 else 5.0)
-    axs = fig.subplots(1, len(pairs), squeeze=False)[0]
-    colours = fluid_colours(front.case.model.fluids)
-    v = front.values
-    fluids = [pt.design.fluid for pt in front.points]
-    for n, (i, j) in enumerate(pairs):
-        ax = axs[n]
-        if k == 2 and len(front.fluid_fronts) > 1:
-            for f, fv in front.fluid_fronts.items():
-                o = np.argsort(fv[:, i])
-                ax.plot(
-                    fv[o, i],
-                    fv[o, j],
-                    color=colours[f],
-                    lw=0.9,
-                    alpha=0.45,
-                    zorder=1,
-                    label=f"{f}: its own front",
-                )
-        if k == 2 and v.shape[0] > 1:
-            ax.plot(v[:, i], v[:, j], color="0.55", lw=1.0, zorder=2)
-        for f in front.case.model.fluids:
-            mine = np.array([x == f for x in fluids], dtype=bool)
-            if mine.any():
-                ax.scatter(
-                    v[mine, i],
-                    v[mine, j],
-                    s=16,
-                    color=colours[f],
-                    zorder=3,
-                    label=f"{f} ({int(mine.sum())} points)",
-                )
-        if front.knee >= 0:
-            kv = v[front.knee]
-            ax.scatter(
-                [kv[i]],
-                [kv[j]],
-                s=170,
-                facecolors="none",
-                edgecolors="black",
-                lw=1.6,
-                zorder=4,
-                label="knee",
-            )
-            if n == 0:
-                _callout(
-                    ax,
-                    f"knee: {short_label(front.points[front.knee].design)}",
-                    (kv[i], kv[j]),
-                    0.80,
-                    "white",
-                )
-        if front.chosen is not None:
-            cv = front.chosen.values
-            ax.scatter(
-                [cv[i]],
-                [cv[j]],
-                marker="*",
-                s=260,
-                color="#ffd400",
-                edgecolors="black",
-                lw=0.9,
-                zorder=5,
-                label="solver's design",
-            )
-            if n == 0:
-                _callout(
-                    ax,
-                    f"chosen: {short_label(front.chosen.design)}",
-                    (cv[i], cv[j]),
-                    0.70,
-                    "#fff7cc",
-                )
-        for idx, line in ((i, ax.axvline), (j, ax.axhline)):
-            a = front.axes[idx]
-            if a.lifted and a.case_bound is not None:
-                line(
-                    a.case_bound,
-                    color="0.35",
-                    ls="--",
-                    lw=1.0,
-                    zorder=1,
-                    label=f"case limit: {a.name} <= {fmt(a.case_bound)} {a.unit}",
-                )
-        ax.set_xlabel(f"{front.axes[i].label} [{front.axes[i].unit}]")
-        ax.set_ylabel(f"{front.axes[j].label} [{front.axes[j].unit}]")
-        ax.grid(True, color="0.9", lw=0.6)
-        ax.set_axisbelow(True)
-        if n == 0 and ax.get_legend_handles_labels()[0]:
-            ax.legend(loc="lower left", fontsize=8.5, framealpha=0.9)
-    if len(front.points) == 1:
-        axs[0].text(
-            0.5,
-            0.04,
-            "the front is a single point: one design is best on every axis",
-            transform=axs[0].transAxes,
-            ha="center",
-            fontsize=9,
-            color="0.3",
-        )
-    elif not front.points:
-        axs[0].text(0.5, 0.5, "no feasible design", transform=axs[0].transAxes, ha="center")
-    names = " vs ".join(a.name for a in front.axes)
-    fig.suptitle(
-        f"{front.case.title}\nPareto front: {names} ({len(front.points)} points)", fontsize=11
-    )
-    add_footer(fig, front.case)
-    return fig
 
 
 # --------------------------------------------------------------------------------------------
@@ -172,14 +44,26 @@ def _nice_ratios(lo: float, hi: float) -> list[float]:
     return sorted(out)
 
 
+def _round_ratios(lo: float, hi: float) -> list[float]:
+    """Ratios 1:n with n a multiple of a round step, four to eight of them in [lo, hi]."""
+    d_lo, d_hi = 1.0 / hi, 1.0 / lo
+    for e in range(-3, 6):
+        for m in (1, 2, 5):
+            step = m * 10.0**e
+            n = np.arange(np.ceil(d_lo / step), np.floor(d_hi / step) + 1) * step
+            if len(n) <= 8:
+                return sorted(1.0 / n[n > 0]) if len(n) >= 3 else []
+    return []
+
+
 def _ratio_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
     from matplotlib.ticker import FixedLocator, FuncFormatter, NullLocator
 
     axis = ax.xaxis if which == "x" else ax.yaxis
     (ax.set_xscale if which == "x" else ax.set_yscale)("log")
     ticks = _nice_ratios(lo, hi)
-    if len(ticks) < 3:
-        ticks = sorted({lo, hi, *ticks})
+    if len(ticks) < 4:  # a zoomed axis: round denominators at a step giving a few ticks
+        ticks = _round_ratios(lo, hi) or sorted({lo, hi, *ticks})
     axis.set_major_locator(FixedLocator(ticks))
     axis.set_minor_locator(NullLocator())
     axis.set_major_formatter(FuncFormatter(lambda v, _: format_ratio(v)))
@@ -190,7 +74,8 @@ def _distortion_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
 
     axis = ax.xaxis if which == "x" else ax.yaxis
     (ax.set_xscale if which == "x" else ax.set_yscale)("log")
-    ticks = [t for t in (1, 1.5, 2, 3, 4, 5, 7, 10, 15, 20, 30, 50) if lo - 1e-9 <= t <= hi + 1e-9]
+    steps = (0.1, 0.2, 0.3, 0.5, 0.7, 1, 1.5, 2, 3, 4, 5, 7, 10, 15, 20, 30, 50, 70, 100, 150, 200)
+    ticks = [t for t in steps if lo - 1e-9 <= t <= hi + 1e-9]
     axis.set_major_locator(FixedLocator(ticks or [lo, hi]))
     axis.set_minor_locator(NullLocator())
     axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
@@ -253,7 +138,7 @@ def map_figure(dmap: DesignMap) -> Figure:
     for which, axis_name, g in (("x", dmap.axes[0], X), ("y", dmap.axes[1], Y)):
         if axis_name in ("horizontal_ratio", "vertical_ratio", "velocity_ratio"):
             _ratio_axis(ax, which, float(g[0]), float(g[-1]))
-        elif axis_name == "distortion":
+        elif axis_name in ("distortion", "pressure"):
             _distortion_axis(ax, which, float(g[0]), float(g[-1]))
         elif axis_name == "grain_size":  # millimetres, on a log axis
             _grain_axis(ax, which, float(g[0]), float(g[-1]))
@@ -348,9 +233,13 @@ def map_figure(dmap: DesignMap) -> Figure:
         "#bcbd22",
         "#7f7f7f",
     )
+    placed.extend(_model_bounds(ax, dmap, feasible, list(placed)))
     # one colour per limit; the same limit in a looser condition (key "...@condition") is a
-    # thin dotted line of the same colour, without ticks or an on-line label
+    # thin dotted line of the same colour, without ticks or an on-line label. A boundary that
+    # runs on top of one already drawn is dashed, so that the one beneath shows in its gaps.
     base_keys = list(dict.fromkeys(b.key.split("@")[0] for b in dmap.boundaries))
+    drawn: list[tuple[str, np.ndarray]] = []
+    entries: dict[str, dict[str, Any]] = {}
     for b in dmap.boundaries:
         g = b.violation
         if not (np.any(g > 0) and np.any(g <= 0)):
@@ -359,7 +248,19 @@ def map_figure(dmap: DesignMap) -> Figure:
         n = base_keys.index(base)
         colour = colours[n % len(colours)]
         looser = "@" in b.key
-        style = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        style: Any = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
+        on_top = None
+        if not looser:
+            field = np.where(np.isfinite(g), g, 1e3)
+            probe = ax.contour(gx, gy, field, levels=[0.0])
+            segs0 = [sg for sg in probe.allsegs[0] if len(sg) > 1]
+            probe.remove()
+            if segs0:
+                mine = _unit_coords(dmap, *np.vstack(segs0).T)
+                on_top = _coincides(mine, drawn)
+                drawn.append((_base_label(b.label), mine))
+            if on_top is not None:
+                style = (0, (6, 6))
         cs = ax.contour(
             gx,
             gy,
@@ -376,17 +277,16 @@ def map_figure(dmap: DesignMap) -> Figure:
             cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
             if segs:
                 text = b.label + ("  (binds)" if b.binding else "")
+                if on_top is not None:
+                    text += f"  (on {on_top})"
                 placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
-        handles.append(
-            Line2D(
-                [],
-                [],
-                color=colour,
-                lw=1 if looser else 2,
-                ls=style,
-                label=b.label + ("  (binds at the optimum)" if b.binding else ""),
-            )
+        entry = entries.setdefault(
+            base, {"colour": colour, "style": style, "label": _base_label(b.label), "conds": []}
         )
+        if not looser:
+            entry["style"] = style
+        entry["conds"].append((_condition(b.label), looser, b.binding))
+    handles.extend(_limit_entry(e) for e in entries.values())
     if dmap.optimum is not None:
         ox, oy = dmap.coordinates(dmap.optimum)
         ax.scatter(
@@ -402,7 +302,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                 mec="black",
                 lw=0,
                 label=f"optimum: {short_label(dmap.optimum)}, "
-                f"mismatch {fmt(dmap.optimum_objective)}",
+                f"mismatch {fmt(_denoise(dmap.optimum_objective))}",
             )
         )
     if dmap.axes[0] == "horizontal_ratio" and dmap.preferred:
@@ -459,13 +359,163 @@ def map_figure(dmap: DesignMap) -> Figure:
     legend = fig.legend(
         handles=handles, loc="outside lower center", ncol=2, fontsize=8.3, frameon=False
     )
+    zoom = [dmap.labels[i].split(" (")[0] for i in (0, 1) if any(dmap.zoomed) and dmap.zoomed[i]]
+    note = (
+        f"\nzoomed onto the feasible window along the {' and '.join(zoom)} "
+        "(--full-range: the whole range)"
+        if zoom
+        else ""
+    )
     fig.suptitle(
         f"{dmap.case.title}\ndesign-space map, model fluid {dmap.fluid} (the other "
-        "choices at their optimum in each cell)",
+        f"choices at their optimum in each cell){note}",
         fontsize=11,
     )
     add_footer(fig, dmap.case, legend)
     return fig
+
+
+def _base_label(label: str) -> str:
+    """``depth >= 0.03 m`` of ``depth >= 0.03 m (low)``."""
+    return label.rsplit(" (", 1)[0] if label.endswith(")") else label
+
+
+def _condition(label: str) -> str:
+    """``low`` of ``depth >= 0.03 m (low)``; empty without a condition."""
+    return label.rsplit(" (", 1)[1][:-1] if label.endswith(")") and " (" in label else ""
+
+
+def _limit_entry(entry: dict[str, Any]) -> Any:
+    """One legend entry per limit, its conditions named inside: ``depth >= 0.03 m: low
+    (solid); mean, flood (dotted)``, and where it binds at the optimum."""
+    from matplotlib.lines import Line2D
+
+    tight = [c for c, looser, _ in entry["conds"] if not looser and c]
+    loose = [c for c, looser, _ in entry["conds"] if looser and c]
+    binds = [c for c, _, b in entry["conds"] if b]
+    label = entry["label"]
+    if tight and loose:
+        label += f": {', '.join(tight)} (line); {', '.join(loose)} (dotted)"
+    elif tight:
+        label += f" ({', '.join(tight)})"
+    if binds:
+        label += "  (binds at the optimum)"
+    return Line2D([], [], color=entry["colour"], lw=2, ls=entry["style"], label=label)
+
+
+def _coincides(mine: np.ndarray, drawn: list[tuple[str, np.ndarray]]) -> str | None:
+    """The label of a boundary already drawn that this one (points in unit coordinates) runs
+    on: most of its points within 0.8 % of the frame of that one's."""
+    for label, other in drawn:
+        d = np.min(np.sum((mine[::3, None, :] - other[None, ::3, :]) ** 2, axis=2), axis=1)
+        if np.mean(np.sqrt(d) < 0.008) > 0.6:
+            return label
+    return None
+
+
+def _model_bounds(
+    ax: Axes, dmap: DesignMap, feasible: np.ndarray, avoid: list[np.ndarray]
+) -> list[np.ndarray]:
+    """Label each ``[model]`` bound at the frame's edge where it closes the feasible window,
+    centred on the window's stretch of that edge; return the labels' boxes in unit
+    coordinates (for the other labels to keep clear of)."""
+    if not feasible.any():
+        return []
+    m = dmap.case.model
+    bounds = {
+        "horizontal_ratio": m.horizontal_ratio,
+        "distortion": m.distortion,
+        "temperature": (m.temperature[0] - 273.15, m.temperature[1] - 273.15),
+        "pressure": (m.pressure[0] / 1e5, m.pressure[1] / 1e5),
+        "velocity_ratio": m.velocity_ratio,
+        "vertical_ratio": (
+            m.horizontal_ratio[0] * m.distortion[0],
+            m.horizontal_ratio[1] * m.distortion[1],
+        ),
+    }
+    names = {"horizontal_ratio": "X", "vertical_ratio": "Y", "velocity_ratio": "V"}
+    unit = _unit_coords(dmap, dmap.grid(0), dmap.grid(1))  # each axis's grid in [0, 1]
+    boxes = []
+    style = {"boxstyle": "round,pad=0.15", "fc": "white", "ec": "black", "alpha": 0.9}
+    for which in (0, 1):
+        axis = dmap.axes[which]
+        b = bounds.get(axis)
+        if b is None:
+            continue
+        g = dmap.grid(which)
+        for end, value, op in ((0, b[0], ">="), (-1, b[1], "<=")):
+            on_edge = feasible[:, end] if which == 0 else feasible[end, :]
+            if not on_edge.any() or abs(g[end] - value) > 1e-9 * max(1.0, abs(value)):
+                continue
+            if axis == "temperature":
+                shown = f"temperature {op} {value:g} degC"
+            elif axis == "pressure":
+                shown = f"pressure {op} {value:g} bar"
+            elif axis in names:
+                shown = f"{names[axis]} {op} {format_ratio(value)}"
+            else:
+                shown = f"{axis} {op} {value:g}"
+            text = f"{shown} [model]"
+            pos = 0.0 if end == 0 else 1.0
+            w, h = 0.0098 * len(text) + 0.01, 0.045
+            along = _clear_spot(
+                float(np.mean(unit[on_edge, 1 - which])), w, h, which, pos, [*avoid, *boxes]
+            )
+            if which == 0:
+                ax.text(
+                    pos + (0.006 if end == 0 else -0.006),
+                    along,
+                    text,
+                    transform=ax.transAxes,
+                    rotation=90,
+                    ha="left" if end == 0 else "right",
+                    va="center",
+                    fontsize=8.5,
+                    fontweight="bold",
+                    zorder=9,
+                    bbox=style,
+                )
+                x0 = pos if end == 0 else pos - h
+                boxes.append(np.array([x0, x0 + h, along - w / 2, along + w / 2]))
+            else:
+                ax.text(
+                    along,
+                    pos + (0.008 if end == 0 else -0.008),
+                    text,
+                    transform=ax.transAxes,
+                    ha="center",
+                    va="bottom" if end == 0 else "top",
+                    fontsize=8.5,
+                    fontweight="bold",
+                    zorder=9,
+                    bbox=style,
+                )
+                y0 = pos if end == 0 else pos - h
+                boxes.append(np.array([along - w / 2, along + w / 2, y0, y0 + h]))
+    return boxes
+
+
+def _clear_spot(
+    centre: float, w: float, h: float, which: int, pos: float, avoid: list[np.ndarray]
+) -> float:
+    """Where along a frame edge (unit coordinates) a label ``w`` long and ``h`` deep goes:
+    at ``centre`` if that is clear of the boxes ``avoid``, else the nearest clear spot."""
+    lo, hi = w / 2 + 0.01, 1 - w / 2 - 0.01
+    if hi < lo:
+        return 0.5
+    d0 = pos if pos == 0.0 else pos - h
+    for along in sorted(np.linspace(lo, hi, 41), key=lambda a: (abs(a - centre), a)):
+        box = (
+            np.array([d0, d0 + h, along - w / 2, along + w / 2])
+            if which == 0
+            else np.array([along - w / 2, along + w / 2, d0, d0 + h])
+        )
+        if not any(
+            min(box[1], q[1]) > max(box[0], q[0]) and min(box[3], q[3]) > max(box[2], q[2])
+            for q in avoid
+        ):
+            return float(along)
+    return float(min(max(centre, lo), hi))
 
 
 def _label_line(
@@ -521,14 +571,7 @@ def _label_line(
     return boxes[i]
 
 
-def _callout(ax: Any, text: str, xy: tuple[float, float], height: float, face: str) -> None:
-    """A boxed label at (0.55, ``height``) in axes fraction, with a line to the point ``xy``."""
-    ax.annotate(
-        text,
-        xy,
-        xytext=(0.55, height),
-        textcoords="axes fraction",
-        fontsize=8.5,
-        arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
-        bbox={"boxstyle": "round,pad=0.25", "fc": face, "ec": "0.6"},
-    )
+def _denoise(v: float) -> float:
+    from compromise.solving.result import denoise
+
+    return denoise(v)

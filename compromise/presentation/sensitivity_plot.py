@@ -24,7 +24,7 @@ if TYPE_CHECKING:
 def sensitivity_figure(sens: Sensitivity) -> Figure:
     """Share of the samples in which each candidate design is the best, one bar each."""
     n = len(sens.candidates)
-    fig = new_figure(7.8, 1.6 + 0.42 * n)
+    fig = new_figure(7.8, 2.3 + 0.42 * n)
     ax = fig.subplots()
     colours = fluid_colours(sens.case.model.fluids)
     ypos = np.arange(n)[::-1]
@@ -54,6 +54,7 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
         bars[sens.nominal].set_linewidth(2.2)
         bars[sens.nominal].set_hatch("..")
     tied_nominal = len(sens.nominal_tied) > 1
+    all_tied = tied_nominal and len(sens.nominal_tied) == n
     labels = []
     for i, (y, c, s, t) in enumerate(zip(ypos, sens.candidates, shares, ties, strict=True)):
         text = (
@@ -63,7 +64,9 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
         )
         if not math.isfinite(c.nominal_objective):
             text += "  (infeasible)"
-        if tied_nominal and i in sens.nominal_tied:
+        if all_tied:
+            pass  # said once, in the title
+        elif tied_nominal and i in sens.nominal_tied:
             text += "  <- tied best at the case's weights"
         elif i == sens.nominal:
             text += "  <- best at the case's weights"
@@ -82,13 +85,14 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
         handles.append(
             Patch(facecolor="white", hatch="//", edgecolor="black", label="tied for best")
         )
-    ax.legend(
+    legend = fig.legend(
         handles=handles,
-        loc="upper left",
-        bbox_to_anchor=(1.01, 1.0),
+        loc="outside lower center",
+        ncol=min(len(handles), 4),
         fontsize=8.5,
         title="model fluid",
         title_fontsize=8.5,
+        frameon=False,
     )
     title = (
         f"{sens.case.title}\nweights of {', '.join(sens.groups) or 'no group'} each x/÷ up to "
@@ -96,8 +100,10 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
     )
     if sens.note:
         title += "\n" + sens.note.split(":")[0] + ": the weights cannot change the answer"
+    if all_tied:
+        title += "\nevery candidate is tied for best at the case's weights"
     fig.suptitle(title, fontsize=10.5)
-    add_footer(fig, sens.case)
+    add_footer(fig, sens.case, legend)
     _fit_labels(fig, ax, labels)
     return fig
 

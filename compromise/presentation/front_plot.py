@@ -1,0 +1,437 @@
+"""The figure of a trade-off front (presentation only; the front comes from
+:func:`compromise.explore.tradeoffs.trace_front`).
+
+Axes are shown in the units people present: a group's mismatch as how far the model's value is
+off the prototype's, in % (``100 (exp|ln(model/prototype)| - 1)``), or, as an option, the
+log-ratio itself; a model quantity as its value (a log axis when it spans more than a decade).
+The knee is marked only when the front bends (:attr:`Front.has_knee`); the callouts of the knee
+and of the solver's design are placed from the data, clear of the points, of each other and of
+the limit labels. Three axes are drawn as one scatter of the first two coloured by the third.
+"""
+
+from __future__ import annotations
+
+import textwrap
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from compromise.presentation.figures import add_footer, fluid_colours, new_figure, short_label
+from compromise.presentation.tables import fmt
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
+
+    from compromise.explore.tradeoffs import Axis, Front
+
+MISMATCH_UNITS = ("percent", "log")
+MARKERS = ("o", "s", "^", "D", "v", "P")
+
+
+def shown_values(axis: Axis, values: np.ndarray, mismatch: str = "percent") -> np.ndarray:
+    """An axis's values as the figure shows them: a group's ``|ln(model/prototype)|`` as % off
+    (``100 (e^|r| - 1)``) unless ``mismatch`` is ``"log"``; everything else unchanged.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> shown_values(SimpleNamespace(kind="group"), np.array([0.0, np.log(1.5)])).round(9)
+    array([ 0., 50.])
+    """
+    from compromise.solving.result import NOISE
+
+    v = np.asarray(values, dtype=float)
+    if axis.kind in ("group", "total"):  # numerical noise is shown as 0
+        v = np.where(np.abs(v) < NOISE, 0.0, v)
+    if axis.kind == "group" and mismatch == "percent":
+        return 100.0 * np.expm1(v)
+    return v
+
+
+def axis_label(axis: Axis, mismatch: str = "percent") -> str:
+    """The axis title with its unit in brackets."""
+    if axis.kind == "group":
+        if mismatch == "percent":
+            return f"{axis.name}: model off the prototype by [%]"
+        return f"{axis.name} mismatch |ln(model/prototype)| [-]"
+    return f"{axis.label} [{axis.unit}]"
+
+
+def front_caption(front: Front) -> str:
+    """Why the solver's design may lie off the front (figure and text output alike)."""
+    lifted = [a.name for a in front.axes if a.lifted and a.case_bound is not None]
+    primary = next((a for a in front.axes if a.name == front.primary), None)
+    what = f"the {primary.label}" if primary is not None else front.primary
+    if primary is not None and primary.kind == "group":
+        what = f"the {front.primary} mismatch"
+    why = (
+        "the solver balances every weighted group of the case within all its limits, while "
+        f"each point of the front minimises {what} alone for given values of the other axes."
+    )
+    if _chosen_on_front(front):
+        text = "The solver's design (star) lies on this front here; it need not: " + why
+    else:
+        text = "Why the solver's design (star) may lie off this front: " + why
+    if len(lifted) == 1:
+        text += f" The case's limit on {lifted[0]} is lifted here (dashed line)."
+    elif lifted:
+        text += f" The case's limits on {' and '.join(lifted)} are lifted here (dashed lines)."
+    return text
+
+
+def _chosen_on_front(front: Front) -> bool:
+    """Whether the solver's design has the values of a point of the front (within 1e-6)."""
+    if front.chosen is None or not front.points:
+        return False
+    c = np.asarray(front.chosen.values, dtype=float)
+    d = np.abs(front.values - c) <= 1e-6 * (1.0 + np.abs(c))
+    return bool(np.any(np.all(d, axis=1)))
+
+
+def front_figure(front: Front, mismatch: str = "percent") -> Figure:
+    """The Pareto front in presentation units, the knee (where the front has one) and the
+    solver's design called out, the case's lifted limits drawn and labelled; three axes as a
+    scatter of the first two coloured by the third."""
+    k = len(front.axes)
+    fig = new_figure(8.4 if k == 3 else 7.6, 6.4)
+    ax = fig.subplots()
+    colours = fluid_colours(front.case.model.fluids)
+    v = front.values
+    shown = np.column_stack(
+        [shown_values(a, v[:, j], mismatch) for j, a in enumerate(front.axes)]
+    ).reshape(v.shape)
+    fluids = [pt.design.fluid for pt in front.points]
+    knee = front.knee if front.has_knee else -1
+    chosen = None
+    if front.chosen is not None:
+        chosen = np.array(
+            [
+                shown_values(a, np.array([x]), mismatch)[0]
+                for a, x in zip(front.axes, front.chosen.values, strict=True)
+            ]
+        )
+    norm = None
+    if k == 3 and len(shown):
+        from matplotlib.colors import LogNorm, Normalize
+
+        c = shown[:, 2] if chosen is None else np.append(shown[:, 2], chosen[2])
+        lo, hi = float(np.min(c)), float(np.max(c))
+        if hi <= lo:
+            lo, hi = lo - 0.5 * max(abs(lo), 1e-3), hi + 0.5 * max(abs(hi), 1e-3)
+        norm = LogNorm(lo, hi) if lo > 0 and hi / lo > 20 else Normalize(lo, hi)
+    if k == 2 and len(front.fluid_fronts) > 1:
+        for f, fv in front.fluid_fronts.items():
+            if len(fv) < 2:
+                continue
+            fs = np.column_stack(
+                [shown_values(a, fv[:, j], mismatch) for j, a in enumerate(front.axes)]
+            )
+            o = np.argsort(fs[:, 0])
+            ax.plot(
+                fs[o, 0],
+                fs[o, 1],
+                color=colours[f],
+                lw=0.9,
+                alpha=0.45,
+                zorder=1,
+                label=f"{f}: its own front",
+            )
+    if k == 2 and shown.shape[0] > 1:
+        ax.plot(shown[:, 0], shown[:, 1], color="0.55", lw=1.0, zorder=2)
+    scatter = None
+    for n, f in enumerate(front.case.model.fluids):
+        mine = np.array([x == f for x in fluids], dtype=bool)
+        if not mine.any():
+            continue
+        label = f"{f} ({int(mine.sum())} point{'s' if mine.sum() != 1 else ''})"
+        if k == 3:
+            scatter = ax.scatter(
+                shown[mine, 0],
+                shown[mine, 1],
+                c=shown[mine, 2],
+                norm=norm,
+                cmap="viridis",
+                s=26,
+                marker=MARKERS[n % len(MARKERS)],
+                edgecolors="0.2",
+                linewidths=0.4,
+                zorder=3,
+                label=label,
+            )
+        else:
+            ax.scatter(
+                shown[mine, 0], shown[mine, 1], s=16, color=colours[f], zorder=3, label=label
+            )
+    if knee >= 0:
+        ax.scatter(
+            [shown[knee, 0]],
+            [shown[knee, 1]],
+            s=170,
+            facecolors="none",
+            edgecolors="black",
+            lw=1.6,
+            zorder=4,
+            label="knee",
+        )
+    if chosen is not None:
+        ax.scatter(
+            [chosen[0]],
+            [chosen[1]],
+            marker="*",
+            s=260,
+            color="#ffd400",
+            edgecolors="black",
+            lw=0.9,
+            zorder=5,
+            label="solver's design",
+        )
+    _scales(ax, front, shown, chosen)
+    limit_labels = _limit_lines(ax, front, mismatch)
+    ax.set_xlabel(axis_label(front.axes[0], mismatch))
+    ax.set_ylabel(axis_label(front.axes[1], mismatch))
+    ax.grid(True, color="0.9", lw=0.6)
+    ax.set_axisbelow(True)
+    if k == 3 and scatter is not None:
+        cb = fig.colorbar(scatter, ax=ax, shrink=0.92)
+        cb.set_label(axis_label(front.axes[2], mismatch))
+        a = front.axes[2]
+        if (
+            a.lifted
+            and a.case_bound is not None
+            and norm is not None
+            and norm.vmin <= a.case_bound <= norm.vmax
+        ):
+            cb.ax.axhline(a.case_bound, color="black", ls="--", lw=1.4)
+            cb.ax.text(
+                -0.15,
+                a.case_bound,
+                f"case limit {fmt(a.case_bound)} {a.unit}",
+                transform=cb.ax.get_yaxis_transform(),
+                ha="right",
+                va="center",
+                fontsize=8,
+                rotation=90,
+            )
+    caption = ""
+    if len(front.points) == 1:
+        caption = "The front is a single point: one design is best on every axis. "
+    elif front.points and len(front.points) >= 3 and knee < 0:
+        caption = (
+            f"The front is nearly straight (its bend is {100 * front.knee_depth:.1f} % of the "
+            "line through its ends): no knee is marked. "
+        )
+    elif not front.points:
+        ax.text(0.5, 0.5, "no feasible design", transform=ax.transAxes, ha="center")
+    if chosen is not None:
+        caption += front_caption(front)
+    if caption:
+        ax.set_title(
+            textwrap.fill(caption, 112 if k == 2 else 120), fontsize=8.2, color="0.25", loc="left"
+        )
+    handles, labels = ax.get_legend_handles_labels()
+    if k == 3:  # the fluids' entries in a neutral colour (the colour is the third axis)
+        from matplotlib.lines import Line2D
+
+        handles = [
+            Line2D(
+                [],
+                [],
+                ls="",
+                marker=MARKERS[front.case.model.fluids.index(lab.split(" (")[0]) % len(MARKERS)],
+                mfc="0.6",
+                mec="0.2",
+            )
+            if lab.endswith((" points)", " point)"))
+            else h
+            for h, lab in zip(handles, labels, strict=True)
+        ]
+        a = front.axes[2]
+        if a.lifted and a.case_bound is not None:
+            handles.append(Line2D([], [], color="black", ls="--", lw=1.4))
+            labels.append(
+                f"case limit: {a.name} <= {fmt(a.case_bound)} {a.unit} (on the colour bar)"
+            )
+    legend = None
+    if handles:
+        legend = fig.legend(
+            handles, labels, loc="outside lower center", ncol=3, fontsize=8.5, frameon=False
+        )
+    names = " vs ".join(a.name for a in front.axes)
+    shape = f"{len(front.points)} point{'s' if len(front.points) != 1 else ''}"
+    third = f", colour: {front.axes[2].name}" if k == 3 else ""
+    fig.suptitle(f"{front.case.title}\nPareto front: {names} ({shape}{third})", fontsize=11)
+    add_footer(fig, front.case, legend)
+    if legend is None:
+        fig.draw_without_rendering()
+        fig.set_layout_engine("none")
+    callouts = []
+    if knee >= 0:
+        callouts.append(
+            (
+                "knee: " + short_label(front.points[knee].design),
+                (shown[knee, 0], shown[knee, 1]),
+                "white",
+            )
+        )
+    if chosen is not None:
+        callouts.append(
+            ("chosen: " + short_label(front.chosen.design), (chosen[0], chosen[1]), "#fff7cc")
+        )
+    _place_callouts(fig, ax, callouts, shown[:, :2], limit_labels)
+    return fig
+
+
+def _scales(ax: Axes, front: Front, shown: np.ndarray, chosen: np.ndarray | None) -> None:
+    """A log scale for an axis spanning more than a decade of positive values; no offset
+    notation; a visible range around a single point."""
+    for j, (set_scale, set_lim) in enumerate(
+        ((ax.set_xscale, ax.set_xlim), (ax.set_yscale, ax.set_ylim))
+    ):
+        vals = shown[:, j] if chosen is None else np.append(shown[:, j], chosen[j])
+        vals = vals[np.isfinite(vals)]
+        if not len(vals):
+            continue
+        a = front.axes[j]
+        if a.lifted and a.case_bound is not None:
+            vals = np.append(vals, a.case_bound)
+        lo, hi = float(np.min(vals)), float(np.max(vals))
+        if lo > 0 and hi / lo > 10:
+            set_scale("log")
+        elif hi - lo <= 1e-6 * max(abs(hi), 1e-12):
+            if hi == 0.0:  # a mismatch of nil: the axis starts at 0, as a mismatch does
+                set_lim(-0.05, 1.0)
+            else:
+                pad = 0.1 * abs(hi)
+                set_lim(lo - pad, hi + pad)
+    for axis in (ax.xaxis, ax.yaxis):
+        fmtter = axis.get_major_formatter()
+        if hasattr(fmtter, "set_useOffset"):
+            fmtter.set_useOffset(False)
+
+
+def _limit_lines(ax: Axes, front: Front, mismatch: str) -> list[Any]:
+    """The case's lifted limits on the two drawn axes: a dashed line each, labelled on the line."""
+    texts = []
+    for j, line in ((0, ax.axvline), (1, ax.axhline)):
+        a = front.axes[j]
+        if not (a.lifted and a.case_bound is not None):
+            continue
+        bound = float(shown_values(a, np.array([a.case_bound]), mismatch)[0])
+        label = f"case limit: {a.name} <= {fmt(a.case_bound)} {a.unit}"
+        line(bound, color="0.3", ls="--", lw=1.1, zorder=1, label=label)
+        if j == 0:
+            t = ax.text(
+                bound,
+                0.98,
+                f"{label} (lifted)",
+                transform=ax.get_xaxis_transform(),
+                rotation=90,
+                ha="right",
+                va="top",
+                fontsize=8,
+                color="0.2",
+            )
+        else:
+            t = ax.text(
+                0.99,
+                bound,
+                f"{label} (lifted)",
+                transform=ax.get_yaxis_transform(),
+                ha="right",
+                va="bottom",
+                fontsize=8,
+                color="0.2",
+            )
+        t.set_bbox({"boxstyle": "square,pad=0.25", "fc": "white", "ec": "none", "alpha": 0.85})
+        texts.append(t)
+    return texts
+
+
+def _place_callouts(
+    fig: Figure,
+    ax: Axes,
+    callouts: list[tuple[str, tuple[float, float], str]],
+    points: np.ndarray,
+    avoid: list[Any],
+) -> None:
+    """Boxed labels joined by a line to their points, each placed where it covers no point, no
+    limit label and no other callout, with a short leader that crosses no other leader."""
+    if not callouts:
+        return
+    fig.draw_without_rendering()
+    renderer = fig.canvas.get_renderer()
+    frame = ax.get_window_extent(renderer)
+    pts = ax.transData.transform(points) if len(points) else np.zeros((0, 2))
+    pts = pts[np.all(np.isfinite(pts), axis=1)]
+    blocked = [t.get_window_extent(renderer) for t in avoid]
+    boxes: list[np.ndarray] = []
+    leaders: list[tuple[np.ndarray, np.ndarray]] = []
+    margin = 6.0  # [px]
+    for text, xy, face in callouts:
+        ann = ax.annotate(
+            text,
+            xy,
+            xytext=(0.5, 0.5),
+            textcoords="axes fraction",
+            ha="left",
+            va="bottom",
+            fontsize=8.5,
+            arrowprops={"arrowstyle": "-", "color": "0.3", "lw": 0.8},
+            bbox={"boxstyle": "round,pad=0.3", "fc": face, "ec": "0.5"},
+            zorder=7,
+        )
+        ann.set_in_layout(False)
+        fig.draw_without_rendering()
+        patch = ann.get_bbox_patch().get_window_extent(renderer)
+        anchor = np.array(ax.transAxes.transform((0.5, 0.5)))
+        d0 = np.array([patch.x0, patch.y0]) - anchor
+        size = np.array([patch.width, patch.height])
+        target = ax.transData.transform(xy)
+        best, best_score = (0.5, 0.5), np.inf
+        for fx in np.linspace(0.0, 1.0, 21):
+            for fy in np.linspace(0.0, 1.0, 21):
+                lo = np.array(
+                    [
+                        frame.x0 + 4 + fx * (frame.width - 8 - size[0]),
+                        frame.y0 + 4 + fy * (frame.height - 8 - size[1]),
+                    ]
+                )
+                hi = lo + size
+                score = 0.0
+                inside = np.all((pts >= lo - margin) & (pts <= hi + margin), axis=1)
+                score += 40.0 * float(np.count_nonzero(inside))
+                if np.all((target >= lo - 10) & (target <= hi + 10)):
+                    score += 400.0
+                for b in blocked:
+                    if _overlap(lo, hi, np.array([b.x0, b.y0]), np.array([b.x1, b.y1]), margin):
+                        score += 300.0
+                for q in boxes:
+                    if _overlap(lo, hi, q[:2], q[2:], margin):
+                        score += 1e6
+                centre = np.clip(target, lo, hi)
+                for p0, p1 in leaders:
+                    if _cross(target, centre, p0, p1):
+                        score += 200.0
+                score += float(np.hypot(*(centre - target))) / max(frame.width, 1.0) * 60.0
+                if score < best_score - 1e-9:
+                    best_score, best = score, (lo, hi, centre)
+        lo, hi, centre = best
+        ann.set_position(tuple(ax.transAxes.inverted().transform(lo - d0)))
+        boxes.append(np.concatenate([lo, hi]))
+        leaders.append((target, centre))
+
+
+def _overlap(
+    lo: np.ndarray, hi: np.ndarray, qlo: np.ndarray, qhi: np.ndarray, margin: float
+) -> bool:
+    return bool(np.all(lo - margin < qhi) and np.all(qlo < hi + margin))
+
+
+def _cross(a: np.ndarray, b: np.ndarray, c: np.ndarray, d: np.ndarray) -> bool:
+    """Whether the segments ab and cd cross."""
+
+    def orient(p: np.ndarray, q: np.ndarray, r: np.ndarray) -> float:
+        return float((q[0] - p[0]) * (r[1] - p[1]) - (q[1] - p[1]) * (r[0] - p[0]))
+
+    return (orient(a, b, c) * orient(a, b, d) < 0) and (orient(c, d, a) * orient(c, d, b) < 0)

@@ -244,6 +244,28 @@ def test_map_draws_grain_size_against_the_horizontal_ratio() -> None:
     assert res.exit_code == 0, res.output
 
 
+def test_breakwater_map_is_ratio_against_temperature_because_the_grain_is_tied() -> None:
+    # the stability number kept exactly ties the armour size to the ratio: the grain-size map
+    # would be a line no cell hits, so the default map is X against the temperature with the
+    # grain decided in each cell; no cell beats the optimum, and the optimum's own cell (1:20,
+    # 22 degC, on the grid's corner) has its mismatch
+    from compromise.explore.designmap import default_axes, design_map
+
+    case = load_case(ROOT / "cases" / "breakwater.toml")
+    assert default_axes(case) == ("horizontal_ratio", "temperature")
+    dmap = design_map(case, resolution=31)  # 1:20 is a grid line (1:80 to 1:10)
+    assert dmap.optimum is not None
+    finite = np.isfinite(dmap.objective)
+    assert 0.2 < finite.mean() < 1.0
+    assert float(dmap.objective[finite].min()) >= dmap.optimum_objective - 1e-9
+    x, t = dmap.coordinates(dmap.optimum)
+    i = int(np.argmin(np.abs(np.log(dmap.grid(0) / x))))
+    j = int(np.argmin(np.abs(dmap.grid(1) - t)))
+    assert dmap.objective[j, i] == pytest.approx(dmap.optimum_objective, rel=1e-6)
+    res = CliRunner().invoke(app, ["map", str(ROOT / "cases" / "breakwater.toml"), "--json"])
+    assert res.exit_code == 0, res.output
+
+
 def test_review_of_the_saved_answer_reproduces_the_optimum(tmp_path: Path) -> None:
     # the review of the solver's own answer (material and grain size read back from the
     # saved JSON) has the optimum's weighted mismatch and breaks nothing

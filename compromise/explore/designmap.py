@@ -209,8 +209,15 @@ def default_axes(case: Case) -> tuple[str, str]:
     ``horizontal_ratio`` and ``pressure`` when a gas's pressure may vary (a pressurised
     tunnel's key decision), else ``horizontal_ratio`` and ``temperature``
     (``velocity_ratio`` when the temperature is fixed too); ``horizontal_ratio`` and
-    ``grain_size`` in a case with ``[sediment]``."""
+    ``grain_size`` in a case with ``[sediment]`` (``temperature`` instead where a group kept
+    exactly ties the grain size to the ratios, so that the grain-size map would be a line)."""
     if case.sediment is not None:
+        from compromise.solving.granular import GranularProblem
+
+        gp = GranularProblem(case)
+        tied = gp.E.size and bool(np.any(np.abs(gp.E[:, -1]) > 0.0))
+        if tied and case.model.temperature[1] > case.model.temperature[0]:
+            return "horizontal_ratio", "temperature"
         return "horizontal_ratio", "grain_size"
     if case.model.distortion[1] > case.model.distortion[0]:
         return "horizontal_ratio", "distortion"

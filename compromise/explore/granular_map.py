@@ -7,6 +7,11 @@ temperature) takes its optimum: each cell is the four-variable QP of
 temperature of a grid. The moving-bed floor is held at the critical Shields value of the
 optimum's grain (the map shows the window around the answer, not each grain's own threshold).
 Limits are not drawn as lines on this map (the feasible window is the region with a value).
+
+A ratio against ``temperature`` is the other map of such a case: each cell at its best grain
+size (and other ratios). It is the default where a group kept exactly ties the grain size to
+the ratios (a breakwater's stability number): there the grain-size map's feasible set is a
+line, which no grid cell hits.
 """
 
 from __future__ import annotations
@@ -44,10 +49,11 @@ def granular_map(
 
     sed = case.sediment
     assert sed is not None
-    if "grain_size" not in axes or not any(a in _NORMALS for a in axes):
+    inner = "grain_size" if "grain_size" in axes else "temperature"
+    if inner not in axes or not any(a in _NORMALS for a in axes):
         raise CaseError(
-            f"a case with [sediment] maps the model grain size against a ratio (one of "
-            f"{', '.join(_NORMALS)}), got {', '.join(axes)}",
+            f"a case with [sediment] maps the model grain size or temperature against a ratio "
+            f"(one of {', '.join(_NORMALS)}), got {', '.join(axes)}",
             key="--axes",
         )
     sol = find_optimum(case)
@@ -62,7 +68,7 @@ def granular_map(
         else None
     )
     gp = GranularProblem(case)
-    ratio_axis = next(a for a in axes if a != "grain_size")
+    ratio_axis = next(a for a in axes if a != inner)
     m = case.model
     if ratio_axis == "horizontal_ratio":
         lo, hi = m.horizontal_ratio
@@ -73,36 +79,45 @@ def granular_map(
     else:  # vertical ratio, or a velocity ratio the case leaves free: around the optimum
         ref = getattr(best, ratio_axis) if best else m.horizontal_ratio[1]
         lo, hi = ref / 10.0, min(1.0, ref * 10.0)
-    d_lo, d_hi = sed.grain_size
-    if not math.isfinite(d_hi):
-        d_hi = 10.0 * max(d_lo, best.grain_size if best and best.grain_size else d_lo)
     r_grid = np.geomspace(lo, hi, resolution) if hi > lo else np.array([lo])
-    d_grid = np.geomspace(d_lo, d_hi, resolution) if d_hi > d_lo else np.array([d_lo])
-    grids = {ratio_axis: r_grid, "grain_size": d_grid}
-    gx, gy = grids[axes[0]], grids[axes[1]]
-    cx, cy = np.meshgrid(gx, gy)
-    logs = {
-        axes[0]: np.log(cx.ravel() / (gp.d0 if axes[0] == "grain_size" else 1.0)),
-        axes[1]: np.log(cy.ravel() / (gp.d0 if axes[1] == "grain_size" else 1.0)),
-    }
-    extra = np.array([_NORMALS[ratio_axis], [0.0, 0.0, 0.0, 1.0]])
-    extra_e = np.column_stack([logs[ratio_axis], logs["grain_size"]])
-    engine = GrainEngine(gp, extra_E=extra)
     fs = FluidStates(case, fluid, gp.used)
     P = float(fs.pressures()[0])
     rho_s = get_material(material).density
-    temps = grid_points(*fs.t_range, n_temperatures)
-    n = extra_e.shape[0]
+    if inner == "grain_size":
+        d_lo, d_hi = sed.grain_size
+        if not math.isfinite(d_hi):
+            d_hi = 10.0 * max(d_lo, best.grain_size if best and best.grain_size else d_lo)
+        inner_grid = np.geomspace(d_lo, d_hi, resolution) if d_hi > d_lo else np.array([d_lo])
+        temps = grid_points(*fs.t_range, n_temperatures)
+    else:  # temperature: the grain size is decided in every cell
+        t_lo, t_hi = fs.t_range
+        inner_grid = np.linspace(t_lo, t_hi, resolution) if t_hi > t_lo else np.array([t_lo])
+    grids = {ratio_axis: r_grid, inner: inner_grid}
+    gx, gy = grids[axes[0]], grids[axes[1]]
+    cx, cy = np.meshgrid(gx, gy)
+    flat = {axes[0]: cx.ravel(), axes[1]: cy.ravel()}
+    n = flat[ratio_axis].size
     obj = np.full(n, np.inf)
     tem = np.full(n, np.nan)
-    for T in temps:
-        p = fs.p(np.array([T]), P)
+    if inner == "grain_size":
+        extra = np.array([_NORMALS[ratio_axis], [0.0, 0.0, 0.0, 1.0]])
+        extra_e = np.column_stack([np.log(flat[ratio_axis]), np.log(flat[inner] / gp.d0)])
+        engine = GrainEngine(gp, extra_E=extra)
+        for T in temps:
+            p = fs.p(np.array([T]), P)
+            c = gp.constants(p, rho_s)
+            _, o = engine.solve(
+                np.repeat(p, n, axis=0), np.repeat(c, n, axis=0), floor, extra_e=extra_e
+            )
+            better = o < obj
+            obj[better], tem[better] = o[better], T
+    else:
+        engine = GrainEngine(gp, extra_E=np.array([_NORMALS[ratio_axis]]))
+        T_cells = flat[inner]
+        p = fs.p(T_cells, P)
         c = gp.constants(p, rho_s)
-        _, o = engine.solve(
-            np.repeat(p, n, axis=0), np.repeat(c, n, axis=0), floor, extra_e=extra_e
-        )
-        better = o < obj
-        obj[better], tem[better] = o[better], T
+        _, obj = engine.solve(p, c, floor, extra_e=np.log(flat[ratio_axis])[:, None])
+        tem = T_cells.copy()
     shape = (gy.size, gx.size)
     objective = np.where(np.isfinite(obj), obj, np.nan).reshape(shape)
     preferred = tuple(

@@ -350,3 +350,58 @@ def test_suspension_rouse_takes_the_nonlinear_path_and_a_brute_force_agrees(
     ev = evaluate_design(sol.case, d).conditions[0].groups["rouse"]
     ws_m = 0.075 * _ferguson_church_2004(d.grain_size, R_m, wm.kinematic_viscosity) / ws_p
     assert ev.model == pytest.approx(ws_m / (0.40 * us_m), rel=1e-9)
+
+
+def test_granular_front_ends_at_the_optimum_and_no_sampled_design_dominates_it() -> None:
+    # the front's least-total end is the solver's answer (same fixed point of the moving-bed
+    # floor); a brute force over random designs of every material at the front's temperature
+    # finds no feasible design that beats a front point on both axes
+    from compromise.explore.granular_front import _Family, _States
+    from compromise.explore.tradeoffs import trace_front
+    from compromise.solving.granular import GranularProblem
+
+    case = load_case(ROOT / "cases" / "heron_reach.toml")
+    front = trace_front(case, ["total", "particle_reynolds"], points=40)
+    sol = find_optimum(case)
+    v = front.values
+    assert len(front.points) >= 20
+    assert v[0, 0] == pytest.approx(sol.objective, rel=1e-6)
+    assert np.all(np.diff(v[:, 0]) >= -1e-12) and np.all(np.diff(v[:, 1]) <= 1e-12)
+    assert all(pt.design.material in case.sediment.materials for pt in front.points)
+    gp = GranularProblem(case)
+    st = _States(case, gp, 24)
+    fam = _Family(gp, list(front.axes), 0, False)
+    floor = sol.sediment.critical_shields[1]
+    rng = np.random.default_rng(7)
+    T = front.points[0].design.temperature
+    u0 = np.append(front.points[0].design.logs, math.log(front.points[0].design.grain_size / gp.d0))
+    for k in range(len(st.items)):
+        p, c = st.at(k, np.array([T]))
+        # the hall pins X near 1:200 from above: sample smaller models, any distortion and grain
+        du = rng.uniform([-0.1, -0.1, -0.1, -0.6], [0.0, 0.1, 0.1, 0.6], size=(20000, 4))
+        u = u0 + du
+        e = (gp.e0 + c @ gp.Ec.T + p @ gp.Q.T)[0]  # onto the exact groups' plane (Froude)
+        E = gp.E
+        u -= (u @ E.T - e) @ np.linalg.solve(E @ E.T, E)
+        h = gp.h0 + c @ gp.Hc.T + p @ gp.P.T
+        h[:, gp.floor_row] -= math.log(floor)
+        ok = np.all(u @ gp.G.T <= h + 1e-9, axis=1)
+        assert ok.sum() > 100
+        vals = fam.values(u[ok], np.repeat(c, ok.sum(), axis=0))
+        for fv in v:
+            beats = np.all(vals < fv - 1e-6, axis=1)
+            assert not beats.any()
+
+
+def test_granular_front_cli_table_and_refused_axes(tmp_path: Path) -> None:
+    path = str(ROOT / "cases" / "heron_reach.toml")
+    res = CliRunner().invoke(
+        app, ["tradeoff", path, "--between", "shields", "particle_reynolds", "-o", str(tmp_path)]
+    )
+    assert res.exit_code == 0, res.output
+    assert "material" in res.output and "polystyrene" in res.output
+    res = CliRunner().invoke(
+        app, ["tradeoff", path, "--between", "shields", "reach_length", "-o", str(tmp_path / "q")]
+    )
+    assert res.exit_code == 2
+    assert "reach_length" in res.output and "Traceback" not in res.output

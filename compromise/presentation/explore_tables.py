@@ -24,6 +24,7 @@ if TYPE_CHECKING:
     from compromise.explore.designmap import DesignMap
     from compromise.explore.sensitivity import Sensitivity
     from compromise.explore.tradeoffs import Front
+    from compromise.solving.design import Design
 
 
 def _save(figure: str, result: Any, stem: Path) -> list[Path]:
@@ -114,6 +115,11 @@ def format_front(front: Front, rows: int = 12) -> str:
     step = max(1, math.ceil(n / rows))
     knee = front.knee if front.has_knee else -1
     show = sorted({*range(0, n, step), n - 1, *([knee] if knee >= 0 else [])})
+    granular = front.points[0].design.material is not None
+
+    def grain(d: Design) -> list[Any]:
+        return [d.material, fmt(float(d.grain_size or 0.0) * 1e3)] if granular else []
+
     head = [
         "#",
         *(f"{a.name} [{a.unit}]" for a in front.axes),
@@ -122,6 +128,7 @@ def format_front(front: Front, rows: int = 12) -> str:
         "X",
         "distortion",
         "V",
+        *(["material", "d [mm]"] if granular else []),
         "",
     ]
     body = []
@@ -137,6 +144,7 @@ def format_front(front: Front, rows: int = 12) -> str:
                 format_ratio(d.horizontal_ratio),
                 d.distortion,
                 format_ratio(d.velocity_ratio),
+                *grain(d),
                 "knee" if i == knee else "",
             ]
         )
@@ -151,6 +159,7 @@ def format_front(front: Front, rows: int = 12) -> str:
                 format_ratio(d.horizontal_ratio),
                 d.distortion,
                 format_ratio(d.velocity_ratio),
+                *grain(d),
                 "chosen",
             ]
         )

@@ -232,10 +232,21 @@ def _tradeoffs(doc: Doc, data: ReportData, system: str) -> None:
         b.append(para(f"No design-space map: {data.notes.get('map', 'not available')}."))
     if data.front is not None and data.front.points:
         names = " against ".join(data.front.names)
+        f = data.front
+        why = (
+            "axes: the case's two heaviest groups, or its heaviest group and the total; the "
+            "model material and grain size are decided at every point"
+            if case.sediment is not None
+            else "axes chosen from the case's heaviest group and its binding limit; the limits "
+            "on the axes' own quantities are lifted, so the front shows what relaxing them buys"
+        )
+        marked = (
+            "The knee and the chosen design are marked."
+            if f.has_knee
+            else "The front is nearly straight, so no knee is marked; the chosen design is."
+        )
         fig = doc.figure(
-            f"Main Pareto front, {names} (axes chosen from the case's heaviest group and its "
-            "binding limit; the limits on the axes' own quantities are lifted, so the front "
-            "shows what relaxing them buys). The knee and the chosen design are marked.",
+            f"Main Pareto front, {names} ({why}). {marked}",
             svg_bytes(plots.front_figure(data.front), case),
             "figure-front",
         )

@@ -129,6 +129,21 @@ def front_axes(case: Case, answer: dict[str, Any]) -> tuple[str, ...]:
     Groups kept exactly, and thresholds turned into bounds, are not candidates (their mismatch
     is zero by construction).
     """
+    if case.sediment is not None:
+        # a movable bed or armour layer: the two heaviest groups (fronts of such a case trade
+        # group mismatches and the total only), or the heaviest against the total
+        from compromise.solving.granular import GranularProblem
+
+        normals = GranularProblem(case).normals
+        ranked = sorted(
+            (
+                (-g.weight, i, n)
+                for i, (n, g) in enumerate(case.groups.items())
+                if not g.exact and not g.threshold and g.weight > 0 and normals[n] is not None
+            )
+        )
+        names = [n for _, _, n in ranked[:2]]
+        return tuple(names) if len(names) == 2 else (*names, "total")
     groups = [
         (g.weight, i, n)
         for i, (n, g) in enumerate(case.groups.items())

@@ -43,6 +43,9 @@ from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
 from compromise.solving.qp import SmallQP
 
 SECONDARY = 1e-7  # relative weight of the other axis in the objective (as in tradeoffs)
+#: A group mismatch |ln(model/prototype)| below this is nil: the tie-break toward the largest
+#: model moves an exactly matched group by about 1e-9, numerical noise, never a result.
+NIL = 1e-8
 N_ZOOM = 9
 
 
@@ -285,6 +288,8 @@ def trace_granular_front(
             return Front(case, tuple(ax), (), -1, chosen, {}, ax[primary].name)
         anchor_vals.append(fam.values(uu, st.at(int(kk[0]), TT)[1]))
     lo = float(anchor_vals[1][0, other])  # the other axis at its own minimum
+    if ax[other].kind == "group" and lo < NIL:
+        lo = 0.0
     hi = float(anchor_vals[0][0, other])  # ... and where the primary is least
     main = _Family(gp, ax, primary, True)
     eps = np.linspace(lo, max(hi, lo), max(2, points)) if hi > lo * (1 + 1e-9) else np.array([lo])
@@ -295,6 +300,10 @@ def trace_granular_front(
         mine = live[kk[live] == k]
         if mine.size:
             vals[mine] = main.values(uu[mine], st.at(k, TT[mine])[1])
+    for j, a in enumerate(ax):
+        if a.kind == "group":
+            col = vals[:, j]
+            col[col < NIL] = 0.0
     fronts: dict[str, np.ndarray] = {}
     for k, (fluid, material, *_rest) in enumerate(st.items):
         mine = live[kk[live] == k]

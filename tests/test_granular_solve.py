@@ -264,6 +264,17 @@ def test_breakwater_map_is_ratio_against_temperature_because_the_grain_is_tied()
     assert dmap.objective[j, i] == pytest.approx(dmap.optimum_objective, rel=1e-6)
     res = CliRunner().invoke(app, ["map", str(ROOT / "cases" / "breakwater.toml"), "--json"])
     assert res.exit_code == 0, res.output
+    res = CliRunner().invoke(
+        app,
+        [
+            "map",
+            str(ROOT / "cases" / "breakwater.toml"),
+            "--axes",
+            "horizontal_ratio",
+            "grain_size",
+        ],
+    )
+    assert res.exit_code == 2 and "stability_number" in res.output and "line" in res.output
 
 
 def test_review_of_the_saved_answer_reproduces_the_optimum(tmp_path: Path) -> None:

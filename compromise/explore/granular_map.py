@@ -69,6 +69,16 @@ def granular_map(
     )
     gp = GranularProblem(case)
     ratio_axis = next(a for a in axes if a != inner)
+    if inner == "grain_size":
+        tied = [n for n, row in zip(gp.exact, gp.E, strict=True) if abs(row[-1]) > 0.0]
+        if tied:
+            raise CaseError(
+                f"'{tied[0]}' is kept exactly and ties the model grain size to the ratios, so "
+                f"the feasible designs over {ratio_axis} and grain_size are a line, not an area;"
+                f" map {ratio_axis} against temperature instead (the default of this case)",
+                file=case.path,
+                key="--axes",
+            )
     m = case.model
     if ratio_axis == "horizontal_ratio":
         lo, hi = m.horizontal_ratio

@@ -285,9 +285,8 @@ def _binding_costs(
 ) -> dict[str, BindingCost]:
     """Multipliers and re-solved drops of the rows binding at the optimum (as
     :func:`compromise.solving.optimum.find_optimum` does for a case without sediment)."""
-    from scipy.optimize import nnls
-
     from compromise.solving.grid import FluidStates
+    from compromise.solving.lsq import nnls
 
     fs = FluidStates(case, best.fluid, gp.used)
     from compromise.physics.materials import get_material

@@ -118,7 +118,7 @@ def _binding_costs(
     best: State,
     n_temperatures: int,
 ) -> dict[str, BindingCost]:
-    from scipy.optimize import nnls
+    from compromise.solving.lsq import nnls
 
     p = states[best.fluid].exact_p(best.temperature, best.pressure)
     f, h, _, _ = engine.linear_terms(p[None])

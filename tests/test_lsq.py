@@ -46,3 +46,16 @@ def test_the_compiled_routine_is_found_or_scipy_is_used(monkeypatch: pytest.Monk
     monkeypatch.setattr(lsq, "_compiled", lambda: None)
     slow = lsq.nnls(A, b)
     assert fast[0].tobytes() == slow[0].tobytes() and fast[1] == slow[1]
+
+
+def test_grid_linspace_is_numpy_linspace_bit_for_bit() -> None:
+    # Oracle: numpy.linspace; the solver's copy skips its dispatch and must give the same bits
+    # (the zoom grids of both searches use it).
+    from compromise.solving.grid import linspace
+
+    rng = np.random.default_rng(11)
+    for _ in range(500):
+        a, b = sorted(rng.uniform(200.0, 400.0, 2))
+        num = int(rng.integers(2, 60))
+        assert linspace(a, b, num).tobytes() == np.linspace(a, b, num).tobytes()
+    assert linspace(1.0, 1.0, 33).tobytes() == np.linspace(1.0, 1.0, 33).tobytes()

@@ -41,6 +41,7 @@ from compromise.solving.grid import (
     ZOOM_ROUNDS,
     FluidStates,
     grid_points,
+    linspace,
 )
 from compromise.solving.problem import PROPERTY_NAMES, Row, bound_key, prototype_environment
 from compromise.solving.qp import SmallQP
@@ -114,6 +115,14 @@ class GranularProblem:
         self.normals = {n: self._normal(n) for n in self.groups}
         self._rows(case)
 
+    def states(self, fluid: str) -> FluidStates:
+        """The :class:`FluidStates` of a model fluid, one per problem: every search (the
+        optimum, each relaxed limit, each fixed ratio) shares its memoised property grids."""
+        kept = self.__dict__.setdefault("_states", {})
+        if fluid not in kept:
+            kept[fluid] = FluidStates(self.case, fluid, self.used)
+        return kept[fluid]
+
     # ---------------------------------------------------------------- the groups' structure
     def model_env(self, u: np.ndarray, p: np.ndarray, rho_s: float | np.ndarray) -> dict:
         """Model values of the quantities and properties at log-ratios ``u`` and ``p`` (any
@@ -142,7 +151,11 @@ class GranularProblem:
 
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
         """``ln(model / prototype)`` of a group (condition 0)."""
-        mv = ex.evaluate(self.exprs[name], self.model_env(u, p, rho_s))
+        return self._log_mismatch_in(name, self.model_env(u, p, rho_s))
+
+    def _log_mismatch_in(self, name: str, env: dict) -> np.ndarray:
+        """:meth:`log_mismatch` from the model values ``env`` of :meth:`model_env`."""
+        mv = ex.evaluate(self.exprs[name], env)
         with np.errstate(divide="ignore", invalid="ignore"):
             return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
 
@@ -160,16 +173,37 @@ class GranularProblem:
         return a
 
     def constants(self, p: np.ndarray, rho_s: float) -> np.ndarray:
-        """Every group's ``ln(model / prototype)`` at ``u = 0`` for states ``p`` (N, 6) [N, g]."""
+        """Every group's ``ln(model / prototype)`` at ``u = 0`` for states ``p`` (N, 6) [N, g].
+
+        The model values are computed once for all the groups, and the result is kept per
+        (states, density) (read-only): the searches of the optimum, of each relaxed limit and
+        of each fixed ratio, and each round of the moving-bed floor, ask for the same grids.
+        A hit is the array the same computation returned, so every answer is unchanged.
+        """
         p = np.atleast_2d(p)
+        memo = self.__dict__.setdefault("_constants", {})
+        key = None
+        if isinstance(rho_s, float | int) and p.dtype == np.float64:
+            key = (p.shape, p.tobytes(), float(rho_s))
+            hit = memo.get(key)
+            if hit is not None:
+                return hit
         u = np.zeros((p.shape[0], N_U))
         cols = []
+        linear = any(a is not None for a in self.normals.values())
+        env = self.model_env(u, p, rho_s) if linear else {}
         for n in self.groups:
             if self.normals[n] is None:
                 cols.append(np.zeros(p.shape[0]))
             else:
-                cols.append(np.broadcast_to(self.log_mismatch(n, u, p, rho_s), (p.shape[0],)))
-        return np.column_stack(cols) if cols else np.zeros((p.shape[0], 0))
+                cols.append(np.broadcast_to(self._log_mismatch_in(n, env), (p.shape[0],)))
+        out = np.column_stack(cols) if cols else np.zeros((p.shape[0], 0))
+        if key is not None:
+            if len(memo) >= 4096:
+                memo.clear()
+            out.flags.writeable = False
+            memo[key] = out
+        return out
 
     # ---------------------------------------------------------------- rows
     def _rows(self, case: Case) -> None:
@@ -417,7 +451,7 @@ def _search(
     half = float(grid[1] - grid[0]) if grid.size > 1 else 0.0
     lo, hi = fs.t_range
     for _ in range(ZOOM_ROUNDS if half > 0 else 0):
-        Tz = np.linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
+        Tz = linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
         _, o = run(fs.p(Tz, P))
         k = int(np.argmin(o))
         if o[k] < best[0]:
@@ -510,7 +544,7 @@ def all_grain_states(
     gp = engine.gp
     out: dict[tuple[str, str], GrainState | None] = {}
     for f in case.model.fluids:
-        fs = FluidStates(case, f, gp.used)
+        fs = gp.states(f) if case is gp.case else FluidStates(case, f, gp.used)
         for mat in gp.sed.materials:
             floor = None if floors is None else floors.get((f, mat))
             out[(f, mat)] = best_grain_state(

@@ -124,15 +124,25 @@ class GranularProblem:
         return kept[fluid]
 
     # ---------------------------------------------------------------- the groups' structure
-    def model_env(self, u: np.ndarray, p: np.ndarray, rho_s: float | np.ndarray) -> dict:
+    def model_env(
+        self,
+        u: np.ndarray,
+        p: np.ndarray,
+        rho_s: float | np.ndarray,
+        names: frozenset[str] | None = None,
+    ) -> dict:
         """Model values of the quantities and properties at log-ratios ``u`` and ``p`` (any
-        leading shape broadcast)."""
+        leading shape broadcast); only those in ``names`` (and what they need) when given."""
         sed = self.sed
         env: dict[str, Any] = {}
         y = u[..., :N_DECISION]
+        settling = names is None or SETTLING in names
         for i, n in enumerate(PROPERTY_NAMES):
-            env[n] = self.proto_env[n] * np.exp(p[..., i])
+            if names is None or n in names or (settling and n in ("rho", "nu")):
+                env[n] = self.proto_env[n] * np.exp(p[..., i])
         for name, q in self.case.quantities.items():
+            if names is not None and name not in names:
+                continue
             if name == sed.grain:
                 env[name] = self.d0 * np.exp(u[..., N_DECISION])
             elif name == sed.density:
@@ -151,13 +161,15 @@ class GranularProblem:
 
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
         """``ln(model / prototype)`` of a group (condition 0)."""
-        return self._log_mismatch_in(name, self.model_env(u, p, rho_s))
+        env = self.model_env(u, p, rho_s)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            return self._log_mismatch_in(name, env)
 
     def _log_mismatch_in(self, name: str, env: dict) -> np.ndarray:
-        """:meth:`log_mismatch` from the model values ``env`` of :meth:`model_env`."""
+        """:meth:`log_mismatch` from the model values ``env`` of :meth:`model_env` (inside
+        the caller's ``np.errstate``)."""
         mv = ex.evaluate(self.exprs[name], env)
-        with np.errstate(divide="ignore", invalid="ignore"):
-            return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
+        return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
 
     def _normal(self, name: str) -> np.ndarray | None:
         """The group's normal over ``u`` (None when it is not linear in ``u``)."""
@@ -190,13 +202,20 @@ class GranularProblem:
                 return hit
         u = np.zeros((p.shape[0], N_U))
         cols = []
-        linear = any(a is not None for a in self.normals.values())
-        env = self.model_env(u, p, rho_s) if linear else {}
-        for n in self.groups:
-            if self.normals[n] is None:
-                cols.append(np.zeros(p.shape[0]))
-            else:
-                cols.append(np.broadcast_to(self._log_mismatch_in(n, env), (p.shape[0],)))
+        linear = [n for n in self.groups if self.normals[n] is not None]
+        names = self.__dict__.get("_linear_names")
+        if names is None:
+            names = self._linear_names = frozenset().union(
+                *(ex.names(self.exprs[n]) for n in linear)
+            )
+        env = self.model_env(u, p, rho_s, names) if linear else {}
+        with np.errstate(divide="ignore", invalid="ignore"):
+            for n in self.groups:
+                if self.normals[n] is None:
+                    cols.append(np.zeros(p.shape[0]))
+                    continue
+                lm = self._log_mismatch_in(n, env)
+                cols.append(lm if lm.shape == (p.shape[0],) else np.broadcast_to(lm, (p.shape[0],)))
         out = np.column_stack(cols) if cols else np.zeros((p.shape[0], 0))
         if key is not None:
             if len(memo) >= 4096:
@@ -402,8 +421,9 @@ class GrainEngine:
             h = h + h_shift
         e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
         if self.extra.shape[0]:
-            ee = np.zeros((p.shape[0], self.extra.shape[0])) if extra_e is None else extra_e
-            e = np.hstack([e, np.broadcast_to(ee, (p.shape[0], self.extra.shape[0]))])
+            shape = (p.shape[0], self.extra.shape[0])
+            ee = np.zeros(shape) if extra_e is None else extra_e
+            e = np.hstack([e, ee if np.shape(ee) == shape else np.broadcast_to(ee, shape)])
         batch = self.qp.solve(f, h, e)
         u = batch.y
         r = u @ gp.A.T + cA

@@ -42,9 +42,9 @@ from compromise.solving.grid import (
     FluidStates,
     grid_points,
     linspace,
+    small_qp,
 )
 from compromise.solving.problem import PROPERTY_NAMES, Row, bound_key, prototype_environment
-from compromise.solving.qp import SmallQP
 
 N_U = N_DECISION + 1  # (x, z, v, w)
 SETTLING = "settling_velocity"  # the quantity whose model value the grain decides
@@ -399,7 +399,7 @@ class GrainEngine:
         self.u0 = np.array([x0, z0, 0.5 * z0, z0])
         self.extra = np.zeros((0, N_U)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([gp.E, self.extra])
-        self.qp = SmallQP(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
+        self.qp = small_qp(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
 
     def solve(
         self,

@@ -70,7 +70,7 @@ class Engine:
         self.H = H + 2.0 * self.eps * np.eye(3)
         self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([problem.E, self.extra])
-        self.qp = SmallQP(self.H, problem.G, E)
+        self.qp = small_qp(self.H, problem.G, E)
 
     def linear_terms(
         self, p: np.ndarray, h_shift: np.ndarray | None = None, extra_e: np.ndarray | None = None
@@ -107,6 +107,27 @@ class Engine:
         r = y @ pr.A.T + p @ pr.B.T
         out = np.sum(pr.W * r**2, axis=1)
         return np.where(np.all(np.isfinite(y), axis=1), out, np.inf)
+
+
+_QPS: dict[tuple[bytes, ...], SmallQP] = {}
+
+
+def small_qp(H: np.ndarray, G: np.ndarray, E: np.ndarray) -> SmallQP:
+    """``SmallQP(H, G, E)``, kept per exact bytes of the three matrices: the optimum, each
+    relaxed limit and each preferred ratio of a case (and every later solve of it) build the
+    same enumeration; it is read-only once built, so a kept one answers as a fresh one."""
+    from compromise.solving import qp
+
+    parts = [str(qp.MAX_ENUMERATED_ROWS).encode()]
+    for a in (H, G, E):
+        parts += [f"{a.dtype} {a.shape} {a.strides}".encode(), a.tobytes()]
+    key = tuple(parts)
+    found = _QPS.get(key)
+    if found is None:
+        if len(_QPS) >= 64:
+            _QPS.clear()
+        found = _QPS[key] = SmallQP(H, G, E)
+    return found
 
 
 @dataclass(frozen=True)
@@ -259,10 +280,9 @@ class FluidStates:
             return np.array(rows)
         out = np.array([source_logs(self.fluid, T, P) for P in pressures]) - self.proto_log
         out[:, ~self.used] = 0.0
+        out.flags.writeable = False  # its rows are kept as they are (read-only views)
         for P, row in zip(pressures, out, strict=True):
-            kept = row.copy()
-            kept.flags.writeable = False
-            self._exact.setdefault((T, float(P)), kept)
+            self._exact.setdefault((T, float(P)), row)
         return out
 
     def _exact_p(self, T: float, P: float) -> np.ndarray:

@@ -190,6 +190,10 @@ def source_logs(fluid: object, T: float, P: float) -> np.ndarray:
     return hit
 
 
+#: (fluid, prototype logs, used properties, spline pressure) -> (exact rows, spline grids)
+_SHARED: dict[tuple[object, ...], tuple[dict, dict]] = {}
+
+
 class FluidStates:
     """Property log-ratios of one model fluid over the case's temperature (and pressure) range."""
 
@@ -215,8 +219,18 @@ class FluidStates:
         #: whether the pressure is searched: a gas's properties depend on it; a liquid's ambient
         #: pressure matters where a group names it (the cavitation index)
         self.pressure_searched = self.gas or "p_ambient" in used
-        self._exact: dict[tuple[float, float], np.ndarray] = {}
-        self._grid_p: dict[tuple[bytes, float], np.ndarray] = {}
+        # the memos of property rows, shared by every FluidStates of the same fluid, prototype
+        # state, used properties and (for a liquid) spline pressure: the optimum, the relaxed
+        # limits, the preferred ratios and later solves of the case ask for the same rows
+        identity = (
+            self.name,
+            self.proto_log.tobytes(),
+            self.used.tobytes(),
+            None if self.gas else float(case.model.pressure[0]),
+        )
+        if identity not in _SHARED and len(_SHARED) >= 256:
+            _SHARED.clear()
+        self._exact, self._grid_p = _SHARED.setdefault(identity, ({}, {}))
         m = case.model
         self.t_range = m.temperature
         missing = [
@@ -267,6 +281,8 @@ class FluidStates:
         key = (float(T), float(P))
         hit = self._exact.get(key)
         if hit is None:
+            if len(self._exact) >= 20000:
+                self._exact.clear()
             hit = self._exact[key] = self._exact_p(T, P)
             hit.flags.writeable = False
         return hit
@@ -281,6 +297,8 @@ class FluidStates:
         out = np.array([source_logs(self.fluid, T, P) for P in pressures]) - self.proto_log
         out[:, ~self.used] = 0.0
         out.flags.writeable = False  # its rows are kept as they are (read-only views)
+        if len(self._exact) >= 20000:
+            self._exact.clear()
         for P, row in zip(pressures, out, strict=True):
             self._exact.setdefault((T, float(P)), row)
         return out

@@ -321,7 +321,7 @@ class Fluid(ABC):
     def _properties(self, temperature: float, pressure: float) -> FluidProperties:
         self.check(temperature, pressure)
         t, p = float(temperature), float(pressure)
-        rho, mu, sigma, c = self._evaluate(t, p)
+        rho, mu, sigma, c, vp = self._source_values(t, p)
         return FluidProperties(
             fluid=self.name,
             temperature=t,
@@ -331,9 +331,25 @@ class Fluid(ABC):
             kinematic_viscosity=mu / rho,
             surface_tension=None if math.isnan(sigma) else sigma,
             speed_of_sound=None if math.isnan(c) else c,
-            vapour_pressure=self._vapour_pressure(t, p),
+            vapour_pressure=vp,
             estimated=tuple(self.estimated.items()),
         )
+
+    def _source_values(self, t: float, p: float) -> tuple[float, float, float, float, Any]:
+        """The source models at (t, p): density, viscosity, surface tension, sound speed and
+        vapour pressure (a CoolProp fluid of the catalogue remembers them on disk, see
+        :mod:`compromise.physics.tablecache`)."""
+        disk = isinstance(self, CoolPropFluid) and type(self).__module__ == __name__
+        if disk:
+            from compromise.physics import tablecache
+
+            hit = tablecache.load_state(self.name, t, p)
+            if hit is not None:
+                return hit
+        values = (*self._evaluate(t, p), self._vapour_pressure(t, p))
+        if disk:
+            tablecache.save_state(self.name, t, p, values)  # type: ignore[arg-type]
+        return values  # type: ignore[return-value]
 
     def table(self, pressure: float = ATMOSPHERE) -> FluidTable:
         """The spline table at ``pressure`` [Pa], built on first use and cached.
@@ -451,6 +467,19 @@ class CoolPropFluid(Fluid):
         return float(self._state("sat").Ttriple())  # melting line's pressure shift ignored
 
     def _bounds(self, pressure: float) -> _Bounds:
+        """The limits from CoolProp, remembered on disk (:mod:`compromise.physics.tablecache`)
+        for the catalogue's own fluids."""
+        from compromise.physics import tablecache
+
+        own = type(self).__module__ == __name__
+        found = tablecache.load_bounds(self.name, pressure) if own else None
+        if found is None:
+            found = self._coolprop_bounds(pressure)
+            if own:
+                tablecache.save_bounds(self.name, pressure, found)
+        return found
+
+    def _coolprop_bounds(self, pressure: float) -> _Bounds:
         import CoolProp.CoolProp as CP
 
         s = self._state("sat")

@@ -13,17 +13,28 @@ rebuilt once. Nothing here is ever required: a missing, stale, unreadable or unw
 (or ``COMPROMISE_NO_CACHE`` set) means the table is built as without a cache. Only the
 catalogue's own fluid classes are cached (a subclass elsewhere may change a model); the
 caller, :meth:`compromise.physics.fluids.Fluid.table`, decides.
+
+The same folder keeps, per CoolProp fluid, the states its source models were asked for (the
+solver's finishing states, the prototype's state, the checks' limits: each costs a CoolProp
+call, and CoolProp's import alone costs a quarter of a second): one JSON file of exact floats
+(``float.hex``) per fluid, read on first use and written once at exit when something was
+added, so a later run of the same case needs no CoolProp at all. A hit returns the very
+numbers the models returned.
 """
 
 from __future__ import annotations
 
+import atexit
 import contextlib
 import hashlib
 import importlib.util
 import io
+import json
+import math
 import os
 from functools import lru_cache
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
@@ -31,6 +42,11 @@ from compromise.units import cache_folder
 
 #: A table's arrays: nodes (n,), log-values (n, k) and scipy's coefficients (4, n - 1, k).
 Arrays = tuple[np.ndarray, np.ndarray, np.ndarray]
+#: A fluid's temperature limits at one pressure: (lows, highs), each [(temperature, reason)].
+Bounds = tuple[list[tuple[float, str]], list[tuple[float, str]]]
+#: One source-model state: density, viscosity, surface tension, sound speed (nan where none)
+#: and the vapour pressure (None where none).
+Values = tuple[float, float, float, float, float | None]
 
 _FORMAT = 1  # bump when the file layout changes
 _OWN = ("fluids.py", "correlations.py", "tablecache.py")
@@ -120,10 +136,144 @@ def save(fluid: str, pressure: float, arrays: Arrays) -> None:
 
 
 def clear() -> None:
-    """Remove this version's cached tables (tests and benchmarks measure a cold start)."""
+    """Remove this version's cached tables and states (tests and benchmarks measure a cold
+    start)."""
     folder = _folder()
     if folder is None:
         return
-    for path in folder.glob("*.npz"):
+    for path in [*folder.glob("*.npz"), *folder.glob("*.json")]:
         with contextlib.suppress(OSError):
             os.unlink(path)
+    _STORES.clear()
+
+
+# ------------------------------------------------------------------------ source-model states
+_MAX_STATES = 20000  # states kept per fluid file (a memo: past this it starts again)
+
+
+def _hex(value: float) -> str:
+    return float(value).hex()
+
+
+def _num(text: Any) -> float:
+    if not isinstance(text, str):
+        raise ValueError(text)
+    return float.fromhex(text)
+
+
+class _Store:
+    """One fluid's remembered states and limits, as read from its file plus what was added."""
+
+    def __init__(self, path: Path, fluid: str) -> None:
+        self.path, self.fluid = path, fluid
+        self.states: dict[str, Values] = {}
+        self.bounds: dict[str, Bounds] = {}
+        self.added = False
+        self._merge(self._read())
+
+    def _read(self) -> dict[str, Any]:
+        try:
+            data = json.loads(self.path.read_text(encoding="utf-8"))
+        except (OSError, ValueError):
+            return {}
+        ok = isinstance(data, dict) and data.get("fluid") == self.fluid
+        return data if ok and data.get("format") == _FORMAT else {}
+
+    def _merge(self, data: dict[str, Any]) -> None:
+        """Take the well-formed entries of a file's ``data`` (a damaged entry is skipped)."""
+        states, bounds = data.get("states"), data.get("bounds")
+        for key, row in (states if isinstance(states, dict) else {}).items():
+            with contextlib.suppress(TypeError, ValueError):
+                if len(row) == 5 and key not in self.states:
+                    *four, vp = row
+                    values = (*(_num(v) for v in four), None if vp is None else _num(vp))
+                    self.states[key] = values  # type: ignore[assignment]
+        for key, pair in (bounds if isinstance(bounds, dict) else {}).items():
+            with contextlib.suppress(TypeError, ValueError):
+                lows, highs = pair
+                if key not in self.bounds:
+                    self.bounds[key] = (
+                        [(_num(t), str(why)) for t, why in lows],
+                        [(_num(t), str(why)) for t, why in highs],
+                    )
+
+    def write(self) -> None:
+        """Merge with the file as it is now (a concurrent run may have added to it), write."""
+        from compromise.outfiles import atomic_output
+
+        self._merge(self._read())
+        data = {
+            "format": _FORMAT,
+            "fluid": self.fluid,
+            "states": {
+                k: [*(_hex(v) for v in row[:4]), None if row[4] is None else _hex(row[4])]
+                for k, row in sorted(self.states.items())
+            },
+            "bounds": {
+                k: [[[_hex(t), why] for t, why in side] for side in b]
+                for k, b in sorted(self.bounds.items())
+            },
+        }
+        with contextlib.suppress(OSError), atomic_output(self.path) as fh:
+            fh.write(json.dumps(data, separators=(",", ":")))
+        self.added = False
+
+
+_STORES: dict[tuple[Path, str], _Store] = {}
+_AT_EXIT: list[bool] = []  # whether :func:`flush` is registered to run at exit
+
+
+def _store(fluid: str) -> _Store | None:
+    folder = _folder()
+    if folder is None:
+        return None
+    found = _STORES.get((folder, fluid))
+    if found is None:
+        if not _AT_EXIT:
+            atexit.register(flush)
+            _AT_EXIT.append(True)
+        name = hashlib.sha256(f"{fluid}|states".encode()).hexdigest()[:20]
+        found = _STORES[(folder, fluid)] = _Store(folder / f"{name}.json", fluid)
+    return found
+
+
+def load_state(fluid: str, temperature: float, pressure: float) -> Values | None:
+    """The remembered source-model values of ``fluid`` at (``temperature``, ``pressure``)."""
+    store = _store(fluid)
+    return None if store is None else store.states.get(f"{_hex(temperature)} {_hex(pressure)}")
+
+
+def save_state(fluid: str, temperature: float, pressure: float, values: Values) -> None:
+    """Remember a state's values (written at exit, or by :func:`flush`)."""
+    store = _store(fluid)
+    exact = all(type(v) is float for v in values[:4]) and type(values[4]) in (float, type(None))
+    if store is None or not exact:
+        return
+    if len(store.states) >= _MAX_STATES:
+        store.states.clear()
+    store.states[f"{_hex(temperature)} {_hex(pressure)}"] = values
+    store.added = True
+
+
+def load_bounds(fluid: str, pressure: float) -> Bounds | None:
+    """The remembered temperature limits of ``fluid`` at ``pressure`` (copies), or None."""
+    store = _store(fluid)
+    found = None if store is None else store.bounds.get(_hex(pressure))
+    return None if found is None else (list(found[0]), list(found[1]))
+
+
+def save_bounds(fluid: str, pressure: float, bounds: Bounds) -> None:
+    """Remember a fluid's temperature limits at one pressure (finite or infinite floats)."""
+    store = _store(fluid)
+    ok = all(type(t) is float and not math.isnan(t) for side in bounds for t, _ in side)
+    if store is None or not ok:
+        return
+    store.bounds[_hex(pressure)] = (list(bounds[0]), list(bounds[1]))
+    store.added = True
+
+
+def flush() -> None:
+    """Write every store that gained entries (registered to run at exit)."""
+    for store in _STORES.values():
+        if store.added:
+            store.write()

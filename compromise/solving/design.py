@@ -9,6 +9,7 @@ rule and adds the ratios of every derived kind of quantity (the classic table of
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -319,6 +320,22 @@ def evaluate_design(case: Case, design: Design) -> Evaluation:
         results.append(ConditionResult(cond.name, cond.weight, groups, quantities, limits))
     ratios = {n: math.exp(v) for n, v in zip(PROPERTY_NAMES, p, strict=True) if math.isfinite(v)}
     return Evaluation(design, tuple(results), ratios)
+
+
+def evaluator(case: Case) -> Callable[[Design], Evaluation]:
+    """:func:`evaluate_design` for one case, remembering each design's evaluation: one answer
+    asks for the optimum's several times (the optimum itself, its fluid's and its material's
+    alternatives, the reference every alternative is compared with). The evaluation is a pure
+    function of the design's fields, so a hit is what a fresh evaluation returns."""
+    memo: dict[Design, Evaluation] = {}
+
+    def evaluate(design: Design) -> Evaluation:
+        found = memo.get(design)
+        if found is None:
+            found = memo[design] = evaluate_design(case, design)
+        return found
+
+    return evaluate
 
 
 def granular_model_values(case: Case, design: Design) -> dict[str, float]:

@@ -133,8 +133,6 @@ def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = 
         that alone would make the case feasible (``None`` where no such bound exists); with
         ``relax=False`` only the conflicting set is found (every relaxation is ``None``).
     """
-    from scipy.optimize import linprog
-
     G = problem.G
     E = problem.E
     m, q = G.shape[0], E.shape[0]
@@ -194,6 +192,8 @@ def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = 
         if not relax:
             relaxation[row.key] = None
             continue
+        from scipy.optimize import linprog  # only here: a conflict alone needs no LP solver
+
         others = [j for j in range(m) if j != i]
         best = math.inf
         for hh, ee in rhs:

@@ -41,9 +41,10 @@ from compromise.solving.grid import (
     ZOOM_ROUNDS,
     FluidStates,
     grid_points,
+    linspace,
+    small_qp,
 )
 from compromise.solving.problem import PROPERTY_NAMES, Row, bound_key, prototype_environment
-from compromise.solving.qp import SmallQP
 
 N_U = N_DECISION + 1  # (x, z, v, w)
 SETTLING = "settling_velocity"  # the quantity whose model value the grain decides
@@ -114,16 +115,34 @@ class GranularProblem:
         self.normals = {n: self._normal(n) for n in self.groups}
         self._rows(case)
 
+    def states(self, fluid: str) -> FluidStates:
+        """The :class:`FluidStates` of a model fluid, one per problem: every search (the
+        optimum, each relaxed limit, each fixed ratio) shares its memoised property grids."""
+        kept = self.__dict__.setdefault("_states", {})
+        if fluid not in kept:
+            kept[fluid] = FluidStates(self.case, fluid, self.used)
+        return kept[fluid]
+
     # ---------------------------------------------------------------- the groups' structure
-    def model_env(self, u: np.ndarray, p: np.ndarray, rho_s: float | np.ndarray) -> dict:
+    def model_env(
+        self,
+        u: np.ndarray,
+        p: np.ndarray,
+        rho_s: float | np.ndarray,
+        names: frozenset[str] | None = None,
+    ) -> dict:
         """Model values of the quantities and properties at log-ratios ``u`` and ``p`` (any
-        leading shape broadcast)."""
+        leading shape broadcast); only those in ``names`` (and what they need) when given."""
         sed = self.sed
         env: dict[str, Any] = {}
         y = u[..., :N_DECISION]
+        settling = names is None or SETTLING in names
         for i, n in enumerate(PROPERTY_NAMES):
-            env[n] = self.proto_env[n] * np.exp(p[..., i])
+            if names is None or n in names or (settling and n in ("rho", "nu")):
+                env[n] = self.proto_env[n] * np.exp(p[..., i])
         for name, q in self.case.quantities.items():
+            if names is not None and name not in names:
+                continue
             if name == sed.grain:
                 env[name] = self.d0 * np.exp(u[..., N_DECISION])
             elif name == sed.density:
@@ -142,9 +161,15 @@ class GranularProblem:
 
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
         """``ln(model / prototype)`` of a group (condition 0)."""
-        mv = ex.evaluate(self.exprs[name], self.model_env(u, p, rho_s))
+        env = self.model_env(u, p, rho_s)
         with np.errstate(divide="ignore", invalid="ignore"):
-            return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
+            return self._log_mismatch_in(name, env)
+
+    def _log_mismatch_in(self, name: str, env: dict) -> np.ndarray:
+        """:meth:`log_mismatch` from the model values ``env`` of :meth:`model_env` (inside
+        the caller's ``np.errstate``)."""
+        mv = ex.evaluate(self.exprs[name], env)
+        return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
 
     def _normal(self, name: str) -> np.ndarray | None:
         """The group's normal over ``u`` (None when it is not linear in ``u``)."""
@@ -160,16 +185,44 @@ class GranularProblem:
         return a
 
     def constants(self, p: np.ndarray, rho_s: float) -> np.ndarray:
-        """Every group's ``ln(model / prototype)`` at ``u = 0`` for states ``p`` (N, 6) [N, g]."""
+        """Every group's ``ln(model / prototype)`` at ``u = 0`` for states ``p`` (N, 6) [N, g].
+
+        The model values are computed once for all the groups, and the result is kept per
+        (states, density) (read-only): the searches of the optimum, of each relaxed limit and
+        of each fixed ratio, and each round of the moving-bed floor, ask for the same grids.
+        A hit is the array the same computation returned, so every answer is unchanged.
+        """
         p = np.atleast_2d(p)
+        memo = self.__dict__.setdefault("_constants", {})
+        key = None
+        if isinstance(rho_s, float | int) and p.dtype == np.float64:
+            key = (p.shape, p.tobytes(), float(rho_s))
+            hit = memo.get(key)
+            if hit is not None:
+                return hit
         u = np.zeros((p.shape[0], N_U))
         cols = []
-        for n in self.groups:
-            if self.normals[n] is None:
-                cols.append(np.zeros(p.shape[0]))
-            else:
-                cols.append(np.broadcast_to(self.log_mismatch(n, u, p, rho_s), (p.shape[0],)))
-        return np.column_stack(cols) if cols else np.zeros((p.shape[0], 0))
+        linear = [n for n in self.groups if self.normals[n] is not None]
+        names = self.__dict__.get("_linear_names")
+        if names is None:
+            names = self._linear_names = frozenset().union(
+                *(ex.names(self.exprs[n]) for n in linear)
+            )
+        env = self.model_env(u, p, rho_s, names) if linear else {}
+        with np.errstate(divide="ignore", invalid="ignore"):
+            for n in self.groups:
+                if self.normals[n] is None:
+                    cols.append(np.zeros(p.shape[0]))
+                    continue
+                lm = self._log_mismatch_in(n, env)
+                cols.append(lm if lm.shape == (p.shape[0],) else np.broadcast_to(lm, (p.shape[0],)))
+        out = np.column_stack(cols) if cols else np.zeros((p.shape[0], 0))
+        if key is not None:
+            if len(memo) >= 4096:
+                memo.clear()
+            out.flags.writeable = False
+            memo[key] = out
+        return out
 
     # ---------------------------------------------------------------- rows
     def _rows(self, case: Case) -> None:
@@ -346,7 +399,7 @@ class GrainEngine:
         self.u0 = np.array([x0, z0, 0.5 * z0, z0])
         self.extra = np.zeros((0, N_U)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([gp.E, self.extra])
-        self.qp = SmallQP(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
+        self.qp = small_qp(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
 
     def solve(
         self,
@@ -368,8 +421,9 @@ class GrainEngine:
             h = h + h_shift
         e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
         if self.extra.shape[0]:
-            ee = np.zeros((p.shape[0], self.extra.shape[0])) if extra_e is None else extra_e
-            e = np.hstack([e, np.broadcast_to(ee, (p.shape[0], self.extra.shape[0]))])
+            shape = (p.shape[0], self.extra.shape[0])
+            ee = np.zeros(shape) if extra_e is None else extra_e
+            e = np.hstack([e, ee if np.shape(ee) == shape else np.broadcast_to(ee, shape)])
         batch = self.qp.solve(f, h, e)
         u = batch.y
         r = u @ gp.A.T + cA
@@ -417,7 +471,7 @@ def _search(
     half = float(grid[1] - grid[0]) if grid.size > 1 else 0.0
     lo, hi = fs.t_range
     for _ in range(ZOOM_ROUNDS if half > 0 else 0):
-        Tz = np.linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
+        Tz = linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
         _, o = run(fs.p(Tz, P))
         k = int(np.argmin(o))
         if o[k] < best[0]:
@@ -510,7 +564,7 @@ def all_grain_states(
     gp = engine.gp
     out: dict[tuple[str, str], GrainState | None] = {}
     for f in case.model.fluids:
-        fs = FluidStates(case, f, gp.used)
+        fs = gp.states(f) if case is gp.case else FluidStates(case, f, gp.used)
         for mat in gp.sed.materials:
             floor = None if floors is None else floors.get((f, mat))
             out[(f, mat)] = best_grain_state(

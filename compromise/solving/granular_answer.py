@@ -8,12 +8,13 @@ See :mod:`compromise.solving.granular` for the mathematics.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 
 import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.errors import CompromiseError
-from compromise.solving.design import Design, Evaluation, evaluate_design
+from compromise.solving.design import Design, Evaluation, evaluator
 from compromise.solving.diagnose import Conflict, relaxed_bound
 from compromise.solving.granular import (
     GrainEngine,
@@ -58,9 +59,8 @@ def polished(
     polish_nonlinear`); unchanged when every group is linear in the decisions."""
     if not gp.nonlinear:
         return states
-    from compromise.solving.grid import FluidStates
 
-    fss = {f: FluidStates(gp.case, f, gp.used) for f in gp.case.model.fluids}
+    fss = {f: gp.states(f) for f in gp.case.model.fluids}
     out: GrainStates = {}
     for k, st in states.items():
         st = None if st is None else polish_nonlinear(gp, fss[k[0]], st, extra)
@@ -89,14 +89,15 @@ def granular_optimum(
     if not math.isfinite(best.objective):  # pragma: no cover - as find_optimum
         raise CompromiseError(f"{case.path}: the weighted mismatch of the best design is inf")
     design = design_of_grain(gp, best)
-    evaluation = evaluate_design(case, design)
+    evaluate = evaluator(case)
+    evaluation = evaluate(design)
     floors = {k: s.critical_shields for k, s in states.items() if s and s.critical_shields}
     binding = (
         _binding_costs(case, gp, engine, best, floors, n_temperatures)
         if alternatives and not gp.nonlinear  # multipliers of the QP would not be the answer's
         else {}
     )
-    alts = _alternatives(case, gp, states, best, n_temperatures) if alternatives else ()
+    alts = _alternatives(case, gp, states, best, n_temperatures, evaluate) if alternatives else ()
     account = sediment_account(case, gp, best, design, evaluation)
     return Solution(
         case, "optimal", best.objective, design, evaluation, binding, alts, sediment=account
@@ -117,7 +118,7 @@ def granular_conflict(case: Case, gp: GranularProblem, engine: GrainEngine) -> C
 
     batches = []
     for f in case.model.fluids:
-        fs = FluidStates(case, f, gp.used)
+        fs = gp.states(f) if case is gp.case else FluidStates(case, f, gp.used)
         T = grid_points(*fs.t_range, N_DIAGNOSIS_TEMPERATURES)
         p = fs.p(T, float(fs.pressures()[0]))
         for mat in gp.sed.materials:
@@ -285,11 +286,10 @@ def _binding_costs(
 ) -> dict[str, BindingCost]:
     """Multipliers and re-solved drops of the rows binding at the optimum (as
     :func:`compromise.solving.optimum.find_optimum` does for a case without sediment)."""
-    from scipy.optimize import nnls
-
     from compromise.solving.grid import FluidStates
+    from compromise.solving.lsq import nnls
 
-    fs = FluidStates(case, best.fluid, gp.used)
+    fs = gp.states(best.fluid) if case is gp.case else FluidStates(case, best.fluid, gp.used)
     from compromise.physics.materials import get_material
 
     rho_s = get_material(best.material).density
@@ -349,10 +349,12 @@ def _alternatives(
     states: GrainStates,
     best: GrainState | None,
     n_temperatures: int,
+    evaluate: Callable[[Design], Evaluation] | None = None,
 ) -> tuple[Alternative, ...]:
     from compromise.units import format_ratio
 
-    best_eval = evaluate_design(case, design_of_grain(gp, best)) if best else None
+    evaluate = evaluate or evaluator(case)
+    best_eval = evaluate(design_of_grain(gp, best)) if best else None
     sed = case.sediment
     assert sed is not None
     alts: list[Alternative] = []
@@ -362,7 +364,7 @@ def _alternatives(
             return Alternative(kind, label, None, math.inf, "infeasible")
         d = design_of_grain(gp, s)
         return Alternative(
-            kind, label, d, s.objective, what_separates(case, best_eval, evaluate_design(case, d))
+            kind, label, d, s.objective, what_separates(case, best_eval, evaluate(d))
         )
 
     if len(case.model.fluids) > 1 or len(sed.materials) == 1:

@@ -70,7 +70,7 @@ class Engine:
         self.H = H + 2.0 * self.eps * np.eye(3)
         self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([problem.E, self.extra])
-        self.qp = SmallQP(self.H, problem.G, E)
+        self.qp = small_qp(self.H, problem.G, E)
 
     def linear_terms(
         self, p: np.ndarray, h_shift: np.ndarray | None = None, extra_e: np.ndarray | None = None
@@ -107,6 +107,27 @@ class Engine:
         r = y @ pr.A.T + p @ pr.B.T
         out = np.sum(pr.W * r**2, axis=1)
         return np.where(np.all(np.isfinite(y), axis=1), out, np.inf)
+
+
+_QPS: dict[tuple[bytes, ...], SmallQP] = {}
+
+
+def small_qp(H: np.ndarray, G: np.ndarray, E: np.ndarray) -> SmallQP:
+    """``SmallQP(H, G, E)``, kept per exact bytes of the three matrices: the optimum, each
+    relaxed limit and each preferred ratio of a case (and every later solve of it) build the
+    same enumeration; it is read-only once built, so a kept one answers as a fresh one."""
+    from compromise.solving import qp
+
+    parts = [str(qp.MAX_ENUMERATED_ROWS).encode()]
+    for a in (H, G, E):
+        parts += [f"{a.dtype} {a.shape} {a.strides}".encode(), a.tobytes()]
+    key = tuple(parts)
+    found = _QPS.get(key)
+    if found is None:
+        if len(_QPS) >= 64:
+            _QPS.clear()
+        found = _QPS[key] = SmallQP(H, G, E)
+    return found
 
 
 @dataclass(frozen=True)
@@ -169,6 +190,10 @@ def source_logs(fluid: object, T: float, P: float) -> np.ndarray:
     return hit
 
 
+#: (fluid, prototype logs, used properties, spline pressure) -> (exact rows, spline grids)
+_SHARED: dict[tuple[object, ...], tuple[dict, dict]] = {}
+
+
 class FluidStates:
     """Property log-ratios of one model fluid over the case's temperature (and pressure) range."""
 
@@ -194,8 +219,18 @@ class FluidStates:
         #: whether the pressure is searched: a gas's properties depend on it; a liquid's ambient
         #: pressure matters where a group names it (the cavitation index)
         self.pressure_searched = self.gas or "p_ambient" in used
-        self._exact: dict[tuple[float, float], np.ndarray] = {}
-        self._grid_p: dict[tuple[bytes, float], np.ndarray] = {}
+        # the memos of property rows, shared by every FluidStates of the same fluid, prototype
+        # state, used properties and (for a liquid) spline pressure: the optimum, the relaxed
+        # limits, the preferred ratios and later solves of the case ask for the same rows
+        identity = (
+            self.name,
+            self.proto_log.tobytes(),
+            self.used.tobytes(),
+            None if self.gas else float(case.model.pressure[0]),
+        )
+        if identity not in _SHARED and len(_SHARED) >= 256:
+            _SHARED.clear()
+        self._exact, self._grid_p = _SHARED.setdefault(identity, ({}, {}))
         m = case.model
         self.t_range = m.temperature
         missing = [
@@ -246,6 +281,8 @@ class FluidStates:
         key = (float(T), float(P))
         hit = self._exact.get(key)
         if hit is None:
+            if len(self._exact) >= 20000:
+                self._exact.clear()
             hit = self._exact[key] = self._exact_p(T, P)
             hit.flags.writeable = False
         return hit
@@ -259,10 +296,11 @@ class FluidStates:
             return np.array(rows)
         out = np.array([source_logs(self.fluid, T, P) for P in pressures]) - self.proto_log
         out[:, ~self.used] = 0.0
+        out.flags.writeable = False  # its rows are kept as they are (read-only views)
+        if len(self._exact) >= 20000:
+            self._exact.clear()
         for P, row in zip(pressures, out, strict=True):
-            kept = row.copy()
-            kept.flags.writeable = False
-            self._exact.setdefault((T, float(P)), kept)
+            self._exact.setdefault((T, float(P)), row)
         return out
 
     def _exact_p(self, T: float, P: float) -> np.ndarray:

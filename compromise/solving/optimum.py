@@ -13,13 +13,14 @@ fluid and verified from several starts (:mod:`compromise.solving.nonlinear`).
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import replace
 
 import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.errors import CompromiseError
-from compromise.solving.design import evaluate_design
+from compromise.solving.design import Design, Evaluation, evaluator
 from compromise.solving.diagnose import diagnose, relaxed_bound
 from compromise.solving.grid import (
     N_TEMPERATURES,
@@ -101,10 +102,11 @@ def find_optimum(
             "check the groups' expressions and weights"
         )
     design = design_of(best)
-    evaluation = evaluate_design(case, design)
+    evaluate = evaluator(case)
+    evaluation = evaluate(design)
     binding = _binding_costs(problem, engine, states, best, n_temperatures) if alternatives else {}
     alts = (
-        _alternatives(case, problem, states, per_fluid, best, n_temperatures)
+        _alternatives(case, problem, states, per_fluid, best, n_temperatures, evaluate)
         if alternatives
         else ()
     )
@@ -118,7 +120,7 @@ def _binding_costs(
     best: State,
     n_temperatures: int,
 ) -> dict[str, BindingCost]:
-    from scipy.optimize import nnls
+    from compromise.solving.lsq import nnls
 
     p = states[best.fluid].exact_p(best.temperature, best.pressure)
     f, h, _, _ = engine.linear_terms(p[None])
@@ -186,10 +188,12 @@ def _alternatives(
     per_fluid: dict[str, State | None],
     best: State | None,
     n_temperatures: int,
+    evaluate: Callable[[Design], Evaluation] | None = None,
 ) -> tuple[Alternative, ...]:
     from compromise.units import format_ratio
 
-    best_eval = evaluate_design(case, design_of(best)) if best else None
+    evaluate = evaluate or evaluator(case)
+    best_eval = evaluate(design_of(best)) if best else None
     alts: list[Alternative] = []
     for f, s in per_fluid.items():
         if s is None:
@@ -202,7 +206,7 @@ def _alternatives(
                 f,
                 d,
                 s.objective,
-                what_separates(case, best_eval, evaluate_design(case, d)),
+                what_separates(case, best_eval, evaluate(d)),
             )
         )
     if case.model.preferred_ratios:
@@ -233,7 +237,7 @@ def _alternatives(
                     label,
                     d,
                     c.objective,
-                    what_separates(case, best_eval, evaluate_design(case, d)),
+                    what_separates(case, best_eval, evaluate(d)),
                 )
             )
     alts.sort(key=lambda a: (a.objective, a.kind, a.label))

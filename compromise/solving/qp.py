@@ -153,21 +153,21 @@ class SmallQP:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
         f = np.atleast_2d(np.asarray(f, dtype=float))
         N = f.shape[0]
-        h = self._tightest(
-            np.broadcast_to(
-                np.asarray(h, dtype=float).reshape(-1, self.m_rows)
-                if self.m_rows
-                else np.zeros((1, 0)),
-                (N, self.m_rows),
-            )
-        )
-        e = np.broadcast_to(
-            np.asarray(e, dtype=float).reshape(-1, self.q) if self.q else np.zeros((1, 0)),
-            (N, self.q),
-        )
+        # (the broadcasts are views of the same numbers, skipped where the shape is right)
+        h = np.asarray(h, dtype=float).reshape(-1, self.m_rows) if self.m_rows else np.zeros((1, 0))
+        if h.shape[0] != N:
+            h = np.broadcast_to(h, (N, self.m_rows))
+        h = self._tightest(h)
+        e = np.asarray(e, dtype=float).reshape(-1, self.q) if self.q else np.zeros((1, 0))
+        if e.shape[0] != N:
+            e = np.broadcast_to(e, (N, self.q))
+        solve = self._solve if self.enumerated else self._solve_active_set
+        if N <= CHUNK:  # one chunk: its arrays as they are (fresh, C-ordered), no copies
+            y, obj, active = solve(f, h, e)
+            if y.flags.c_contiguous and active.dtype == np.dtype(int):
+                return QPBatch(y=y, objective=obj, active=active, feasible=np.isfinite(obj))
         y, obj = np.empty((N, self.n)), np.empty(N)
         active = np.empty(N, dtype=int)
-        solve = self._solve if self.enumerated else self._solve_active_set
         for a in range(0, N, CHUNK):
             b = min(N, a + CHUNK)
             y[a:b], obj[a:b], active[a:b] = solve(f[a:b], h[a:b], e[a:b])

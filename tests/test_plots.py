@@ -343,3 +343,52 @@ def test_caption_says_when_the_solver_design_is_on_the_front() -> None:
     assert "lies on this front here; it need not" in title
     assert "single point" in title
     assert "lies on this front here" in format_front(f).replace("\n", " ")
+
+
+def _nu_water(t_kelvin: float) -> float:
+    """Kinematic viscosity of liquid water at 1 atm [m^2/s], IAPWS-95 through the iapws
+    library (Wagner & Pruss 2002; IAPWS 2008 viscosity formulation), the oracle."""
+    from iapws import IAPWS95
+
+    w = IAPWS95(T=t_kelvin, P=0.101325)
+    return float(w.mu / w.rho)
+
+
+def test_front_group_axis_as_model_value_on_a_log_axis(river: Case, tmp_path: Path) -> None:
+    """``--mismatch value``: the x axis is the model's Reynolds number V h / nu (Reynolds
+    1883, its usual definition) on a log axis, in the river's low flow (where its floor
+    applies), with the prototype's value as a line labelled "prototype" and the case's floor
+    as a dashed line. The plotted values are recomputed from each design's ratios with water's
+    viscosity from IAPWS-95 (iapws library); the prototype's low flow is V = 0.6 m/s,
+    h = 1.1 m at 10 degC (cases/river_bend.toml)."""
+    f = trace_front(river, ["reynolds", "discharge"], points=20)
+    fig = front_figure(f, "value")
+    ax = fig.axes[0]
+    assert ax.get_xscale() == "log"
+    assert ax.get_xlabel() == "reynolds in the model (low) [-]"
+    shown = np.asarray(ax.collections[0].get_offsets())[:, 0]
+    oracle = [
+        0.6
+        * pt.design.velocity_ratio
+        * 1.1
+        * pt.design.vertical_ratio
+        / _nu_water(pt.design.temperature)
+        for pt in f.points
+    ]
+    np.testing.assert_allclose(shown, oracle, rtol=2e-3)
+    proto = 0.6 * 1.1 / _nu_water(283.15)
+    # |ln(model/prototype)| of the plotted values is the front's own axis value (linear form)
+    np.testing.assert_allclose(np.abs(np.log(shown / proto)), f.values[:, 0], atol=2e-3)
+    refs = {t.get_gid(): t for t in ax.texts if (t.get_gid() or "").startswith("reference:")}
+    assert set(refs) == {
+        "reference:reynolds:prototype",
+        "reference:reynolds:case limit: reynolds >= 4000",
+    }
+    lines = {round(float(ln.get_xdata()[0]), 6): ln.get_linestyle() for ln in ax.lines}
+    assert any(abs(x / proto - 1) < 2e-3 and ls == "-." for x, ls in lines.items())
+    assert lines.get(4000.0) == "--"
+    lo, hi = ax.get_xlim()
+    assert lo < 4000 and proto < hi  # the floor and the prototype's value are in view
+    svg = _svg_text(fig, tmp_path, river).replace("&gt;", ">")  # the SVG keeps the words
+    assert "prototype" in svg and "reynolds in the model (low)" in svg
+    assert "case limit: reynolds >= 4000" in svg

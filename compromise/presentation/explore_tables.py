@@ -41,7 +41,7 @@ def _short(design: Any) -> str:
 def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> list[Path]:
     """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths. The CSV
     keeps the axes' own units (a group's ``|ln(model/prototype)|``); the figure shows a group's
-    mismatch in % unless ``mismatch`` is ``"log"``."""
+    mismatch in % unless ``mismatch`` is ``"value"`` (its model value) or ``"log"``."""
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / ("tradeoff_" + "_".join(front.names))

@@ -65,7 +65,7 @@ def _legend(ax_or_fig: Any) -> list[str]:
     leg = ax_or_fig.get_legend() if hasattr(ax_or_fig, "get_legend") else None
     if leg is None:
         leg = ax_or_fig.legends[0]
-    return [t.get_text() for t in leg.get_texts()]
+    return [t.get_text().replace("\n    ", " ") for t in leg.get_texts()]  # unwrapped
 
 
 def test_front_figure_axes_legend_and_points(front: Front) -> None:
@@ -170,12 +170,15 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     crossing = [b for b in dmap.boundaries if np.any(b.violation > 0) and np.any(b.violation <= 0)]
     assert len(crossing) >= 4
     entries = _legend(fig)
+    hidden = " ".join(e for e in entries if e.startswith("not drawn, other limits bind first"))
     for b in crossing:
         if "@" not in b.key:  # a looser condition's line is named in its limit's entry
-            assert b.label + ("  (binds)" if b.binding else "") in texts
+            # labelled on its line, or named among those other limits keep off the window
+            assert b.label + ("  (binds)" if b.binding else "") in texts or (b.label in hidden)
     # one legend entry per limit, its conditions named inside
-    assert "depth >= 0.03 m: low (line); mean, flood (dotted)" in entries
     assert "reynolds >= 4000: low (line); mean, flood (dotted)" in entries
+    # the depth and velocity floors lie behind the Reynolds floor and the pump's ceiling
+    assert "depth >= 0.03 m (low)" in hidden and "velocity >= 0.05 m/s (low)" in hidden
     assert len(entries) <= 10
     # every condition's boundary of a limit is drawn (the river's depth floor in three flows)
     assert {"depth >= 0.03 m (low)", "depth >= 0.03 m (mean)", "depth >= 0.03 m (flood)"} <= {
@@ -392,3 +395,45 @@ def test_front_group_axis_as_model_value_on_a_log_axis(river: Case, tmp_path: Pa
     svg = _svg_text(fig, tmp_path, river).replace("&gt;", ">")  # the SVG keeps the words
     assert "prototype" in svg and "reynolds in the model (low)" in svg
     assert "case limit: reynolds >= 4000" in svg
+
+
+def _boundary_lines(fig: Any) -> dict[str, np.ndarray]:
+    """The vertices of every drawn boundary (artists tagged ``boundary:KEY``), per limit."""
+    out: dict[str, list[np.ndarray]] = {}
+    for ln in fig.axes[0].lines:
+        gid = ln.get_gid() or ""
+        if gid.startswith("boundary:"):
+            out.setdefault(gid.split(":", 1)[1], []).append(np.asarray(ln.get_xydata()))
+    return {k: np.vstack(v) for k, v in out.items()}
+
+
+def test_temperature_axis_draws_each_limit_where_it_binds() -> None:
+    """The culvert's map over the ratio and the water temperature. Every vertex of every
+    drawn boundary is re-evaluated as a design (a Froude model with no distortion: at ratio X,
+    Y = X and V = sqrt(X), Froude 1880s similitude, common practice), with the fluids' source
+    property models: there that limit holds with (almost) no slack and no other limit is
+    violated. The Reynolds floor binds in cold water along a curve (the viscosity falls as the
+    water warms, so a smaller model suffices) and stops where the Weber floor takes over: it is
+    not drawn in warm water, where it would run through cells the Weber floor excludes."""
+    from compromise.solving.design import Design, evaluate_design
+
+    case = load_case(ROOT / "cases" / "culvert_si.toml")
+    dm = design_map(case, ["horizontal_ratio", "temperature"], resolution=31)
+    fig = map_figure(dm)
+    lines = _boundary_lines(fig)
+    assert {"groups.reynolds.min", "groups.weber.min", "limits.discharge.max"} <= set(lines)
+    for key, pts in lines.items():
+        name, kind = key.split(".")[1:3]
+        for x, t in pts[:: max(1, len(pts) // 12)]:
+            ev = evaluate_design(case, Design("water", t + 273.15, 101325.0, x, x, x**0.5))
+            worst = ev.worst_limits()
+            assert abs(worst[f"{name}.{kind}"][1].margin) < 0.01, (key, x, t)
+            assert min(v.margin for _, v in worst.values()) > -0.01, (key, x, t)
+    re = lines["groups.reynolds.min"]
+    assert np.ptp(np.log(re[:, 0])) > 0.02  # a curve in X, not a vertical line
+    assert re[:, 1].min() <= 10.0 + 1e-6 and re[:, 1].max() < 15.0  # cold water only
+    full = dm.boundaries[[b.key for b in dm.boundaries].index("groups.reynolds.min")]
+    assert np.any(full.violation[-1] > 0) and np.any(full.violation[-1] <= 0)  # crosses at 25 C
+    # the depth floor lies behind the Weber floor everywhere: named, not drawn
+    assert "limits.depth.min" not in lines
+    assert any(e.startswith("not drawn, other limits bind first: depth") for e in _legend(fig))

@@ -437,3 +437,34 @@ def test_temperature_axis_draws_each_limit_where_it_binds() -> None:
     # the depth floor lies behind the Weber floor everywhere: named, not drawn
     assert "limits.depth.min" not in lines
     assert any(e.startswith("not drawn, other limits bind first: depth") for e in _legend(fig))
+
+
+def _rho_water(t_kelvin: float) -> float:
+    """Density of liquid water at 1 atm [kg/m^3], IAPWS-95 (iapws library), the oracle."""
+    from iapws import IAPWS95
+
+    return float(IAPWS95(T=t_kelvin, P=0.101325).rho)
+
+
+def test_granular_map_draws_the_armour_reynolds_floor_along_its_curve() -> None:
+    """The breakwater's map over the ratio and the basin water's temperature draws each
+    limit's boundary (it drew none). In an undistorted Froude model with the stability number
+    H / (Delta D) kept exactly (Hudson 1959, from memory), the model wave height is 5 m x X
+    and the armour size D = H / (Delta Ns), so the armour Reynolds number sqrt(g H) D / nu is
+    proportional to X^1.5 / (nu Delta) with Delta = rho_s / rho - 1: along the floor
+    Re = 3e4 the product X^1.5 / (nu(T) Delta(T)) is constant, with water's nu and rho from
+    IAPWS-95 (iapws library) and the model stone's 2650 kg/m^3 (crushed granite of the
+    material catalogue). The line is therefore slanted, not vertical."""
+    from compromise.physics.materials import get_material
+
+    dm = design_map(load_case(ROOT / "cases" / "breakwater.toml"), resolution=41)
+    assert dm.axes == ("horizontal_ratio", "temperature")
+    assert dm.optimum is not None and dm.optimum.material is not None
+    rho_s = get_material(dm.optimum.material).density
+    lines = _boundary_lines(map_figure(dm))
+    assert {"groups.armour_reynolds.min", "limits.wave_height.max"} <= set(lines)
+    re = lines["groups.armour_reynolds.min"]
+    assert re[:, 1].min() <= 15.0 + 1e-6 and re[:, 1].max() >= 22.0 - 1e-6  # binds throughout
+    k = [x**1.5 / (_nu_water(t + 273.15) * (rho_s / _rho_water(t + 273.15) - 1.0)) for x, t in re]
+    assert np.ptp(np.log(k)) < 0.01
+    assert np.ptp(np.log(re[:, 0])) > 0.05  # a warmer basin allows a smaller model

@@ -345,7 +345,12 @@ def design_map(
 
         return DesignMap(
             **granular_map(
-                case, axes, fluid=fluid, resolution=resolution, n_temperatures=n_temperatures
+                case,
+                axes,
+                fluid=fluid,
+                resolution=resolution,
+                n_temperatures=n_temperatures,
+                full_range=full_range,
             )
         )
     if "grain_size" in axes:

@@ -246,7 +246,9 @@ def map_figure(dmap: DesignMap) -> Figure:
     entries: dict[str, dict[str, Any]] = {}
     for b in dmap.boundaries:
         g = b.violation
-        if not (np.any(g > 0) and np.any(g <= 0)):
+        # cells where the [model] bounds alone leave nothing (inf) are no part of the limit's
+        # boundary: its line is the zero level of its finite values only
+        if not (np.any(np.isfinite(g) & (g > 0)) and np.any(g <= 0)):
             continue
         base = b.key.split("@")[0]
         n = base_keys.index(base)
@@ -268,7 +270,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                 zorder=3,
             )
         else:
-            probe = ax.contour(gx, gy, fields[b.key], levels=[0.0])
+            probe = ax.contour(gx, gy, np.where(np.isfinite(g), g, np.nan), levels=[0.0])
             segs = [sg for sg in probe.allsegs[0] if len(sg) > 1]
             probe.remove()
             others = [f for k, f in fields.items() if k.split("@")[0] != base]

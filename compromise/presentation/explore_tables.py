@@ -99,8 +99,9 @@ def format_front(front: Front, rows: int = 12) -> str:
     names = " vs ".join(f"{a.label} [{a.unit}]" for a in front.axes)
     if not front.points:
         return "\n".join([*out, f"Pareto front of {names}: no feasible design.", "", CAUTION])
+    plural = "s" if len(front.points) != 1 else ""
     out.append(
-        f"Pareto front of {names}: {len(front.points)} points (exact, epsilon-constraint;"
+        f"Pareto front of {names}: {len(front.points)} point{plural} (exact, epsilon-constraint;"
         f" {front.primary} minimised)."
     )
     for a in front.axes:

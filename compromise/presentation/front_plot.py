@@ -276,7 +276,8 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
         )
     _scales(ax, front, shown, chosen, gvals)
     limit_labels = _limit_lines(ax, front, mismatch)
-    limit_labels += _prototype_lines(ax, front, gvals)
+    marks = shown[:, :2] if chosen is None else np.vstack([shown[:, :2], chosen[None, :2]])
+    limit_labels += _prototype_lines(ax, front, gvals, marks)
 
     def label(j: int) -> str:
         return axis_label(front.axes[j], mismatch, gvals[j].condition if j in gvals else "")
@@ -288,6 +289,13 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
     if k == 3 and scatter is not None:
         cb = fig.colorbar(scatter, ax=ax, shrink=0.92)
         cb.set_label(label(2))
+        if norm is not None and norm.__class__.__name__ == "LogNorm":
+            from matplotlib.ticker import FuncFormatter, LogLocator
+
+            # plain numbers at 1, 2 and 5 times the powers of ten (0.1, 0.2, 0.5, 1), not 10^-1
+            cb.ax.yaxis.set_major_locator(LogLocator(subs=(1.0, 2.0, 5.0)))
+            cb.ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: fmt(v, 3)))
+            cb.ax.yaxis.set_minor_formatter(FuncFormatter(lambda v, _: ""))
         a = front.axes[2]
         if 2 in gvals and norm is not None and norm.vmin <= gvals[2].prototype <= norm.vmax:
             cb.ax.axhline(gvals[2].prototype, color="black", ls="-.", lw=1.4)
@@ -467,7 +475,9 @@ def _limit_lines(ax: Axes, front: Front, mismatch: str) -> list[Any]:
     return texts
 
 
-def _prototype_lines(ax: Axes, front: Front, gvals: dict[int, GroupValues]) -> list[Any]:
+def _prototype_lines(
+    ax: Axes, front: Front, gvals: dict[int, GroupValues], points: np.ndarray
+) -> list[Any]:
     """A group's prototype value (dash-dot, labelled "prototype") and the case's limits on it
     (dashed) on the axes that show the group's model value."""
     texts = []
@@ -475,33 +485,44 @@ def _prototype_lines(ax: Axes, front: Front, gvals: dict[int, GroupValues]) -> l
         if j > 1:
             continue
         name = front.axes[j].name
+        u = (ax.transData + ax.transAxes.inverted()).transform(points)
         lines = [("prototype", gv.prototype, "-.", "0.1")]
         lines += [(f"case limit: {name} {op} {fmt(b)}", b, "--", "0.3") for op, b in gv.limits]
         for text, value, ls, colour in lines:
+            # the label where it covers the fewest points (and the solver's design): at the
+            # start, the middle or the end of its line
+            at = (ax.transData + ax.transAxes.inverted()).transform([[value, value]])[0, j]
+            near = np.abs(u[:, j] - at) < 0.06
+            crowd = [
+                np.count_nonzero(near & (np.abs(u[:, 1 - j] - c) < 0.2)) for c in (0.1, 0.9, 0.5)
+            ]
+            end = (0.02, 0.98, 0.5)[int(np.argmin(crowd))]
             if j == 0:
                 ax.axvline(value, color=colour, ls=ls, lw=1.1, zorder=1)
                 t = ax.text(
                     value,
-                    0.02,
+                    end,
                     text,
                     transform=ax.get_xaxis_transform(),
                     rotation=90,
                     ha="right",
-                    va="bottom",
+                    va={0.02: "bottom", 0.98: "top"}.get(end, "center"),
                     fontsize=8,
                     color="0.1",
+                    zorder=2.5,  # under the points
                 )
             else:
                 ax.axhline(value, color=colour, ls=ls, lw=1.1, zorder=1)
                 t = ax.text(
-                    0.01,
+                    {0.02: 0.01, 0.98: 0.99}.get(end, 0.5),
                     value,
                     text,
                     transform=ax.get_yaxis_transform(),
-                    ha="left",
+                    ha={0.02: "left", 0.98: "right"}.get(end, "center"),
                     va="bottom",
                     fontsize=8,
                     color="0.1",
+                    zorder=2.5,  # under the points
                 )
             t.set_gid(f"reference:{name}:{text}")
             t.set_bbox({"boxstyle": "square,pad=0.25", "fc": "white", "ec": "none", "alpha": 0.85})

@@ -372,7 +372,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                     color="white",
                     edgecolors="black",
                     lw=1.0,
-                    zorder=6,
+                    zorder=5,  # under the optimum's star where they meet
                 )
         handles.append(
             Line2D(

@@ -28,6 +28,7 @@ import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
+from compromise.explore.map_parts import Boundary, row_label, zoom_ranges
 from compromise.solving.granular import GrainEngine, GranularProblem
 from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
 from compromise.solving.qp import SmallQP
@@ -149,9 +150,7 @@ def granular_map(
     cells = window((lo, hi), resolution)
     zoomed = [False, False]
     if not full_range and hi > lo:
-        from compromise.explore.designmap import _zoom
-
-        ranges, zoomed = _zoom(
+        ranges, zoomed = zoom_ranges(
             axes, full, [cells["x"], cells["y"]], np.isfinite(cells["objective"])
         )
         zoomed = [z and a == ratio_axis for z, a in zip(zoomed, axes, strict=True)]
@@ -184,7 +183,6 @@ def granular_map(
 
 def _label(gp: GranularProblem, row: Any, floor: float | None) -> str:
     """``wave_height <= 0.25 m``, ``armour_reynolds >= 3e+04``, ``d >= 10 mm [sediment]``."""
-    from compromise.explore.designmap import row_label
 
     op = "<=" if row.side == "max" else ">="
     if row.key == "sediment.moving_bed":
@@ -210,7 +208,6 @@ def _boundaries(
     """Every limit's least log-violation over the map (see the module docstring), least over
     the fluid states ``states`` (one (N, 6) array per temperature of the grid, or one with each
     cell's own state)."""
-    from compromise.explore.designmap import Boundary
 
     E = np.vstack([gp.E, extra])
     bounds = [i for i, r in enumerate(gp.rows) if r.kind == "bound"]

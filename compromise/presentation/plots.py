@@ -316,7 +316,9 @@ def map_figure(dmap: DesignMap) -> Figure:
         entry["conds"].append((_condition(b.label), looser, b.binding))
     handles.extend(_limit_entry(e) for e in entries.values() if e["closes"])
     hidden = [
-        e["label"] + (f" ({c})" if (c := _tight(e)) else "")
+        e["label"]
+        + (f" ({c})" if (c := _tight(e)) else "")
+        + (", binds at the optimum inside the window" if any(b for *_, b in e["conds"]) else "")
         for e in entries.values()
         if not e["closes"]
     ]

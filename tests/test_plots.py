@@ -468,3 +468,18 @@ def test_granular_map_draws_the_armour_reynolds_floor_along_its_curve() -> None:
     k = [x**1.5 / (_nu_water(t + 273.15) * (rho_s / _rho_water(t + 273.15) - 1.0)) for x, t in re]
     assert np.ptp(np.log(k)) < 0.01
     assert np.ptp(np.log(re[:, 0])) > 0.05  # a warmer basin allows a smaller model
+
+
+def test_granular_sliver_window_is_zoomed_between_its_two_limits() -> None:
+    """The heron reach's window over the ratio is the sliver between the depth floor and the
+    hall's length: depth 3 m x X x distortion >= 7 cm with the distortion at most 5 gives
+    X >= 0.07 / 15 = 1:214.3, and the 6 km reach x X <= 30 m gives X <= 1:200
+    (cases/heron_reach.toml, arithmetic). The map zooms onto it, and the two limits' lines
+    sit at those ratios."""
+    dm = design_map(load_case(ROOT / "cases" / "heron_reach.toml"), resolution=41)
+    assert dm.zoomed == (True, False) and dm.feasible_share > 0.2
+    assert dm.x[0] < 1 / 214.3 and 1 / 200 < dm.x[-1] and dm.x[-1] / dm.x[0] < 1.5
+    lines = _boundary_lines(map_figure(dm))
+    np.testing.assert_allclose(lines["limits.depth.min"][:, 0], 0.07 / 15, rtol=1e-3)
+    np.testing.assert_allclose(lines["limits.reach_length.max"][:, 0], 1 / 200, rtol=1e-3)
+    assert "the map is zoomed onto it" in format_map(dm)

@@ -65,7 +65,7 @@ def _legend(ax_or_fig: Any) -> list[str]:
     leg = ax_or_fig.get_legend() if hasattr(ax_or_fig, "get_legend") else None
     if leg is None:
         leg = ax_or_fig.legends[0]
-    return [t.get_text() for t in leg.get_texts()]
+    return [t.get_text().replace("\n    ", " ") for t in leg.get_texts()]  # unwrapped
 
 
 def test_front_figure_axes_legend_and_points(front: Front) -> None:
@@ -170,12 +170,15 @@ def test_map_figure_labels_every_boundary(dmap: DesignMap) -> None:
     crossing = [b for b in dmap.boundaries if np.any(b.violation > 0) and np.any(b.violation <= 0)]
     assert len(crossing) >= 4
     entries = _legend(fig)
+    hidden = " ".join(e for e in entries if e.startswith("not drawn, other limits bind first"))
     for b in crossing:
         if "@" not in b.key:  # a looser condition's line is named in its limit's entry
-            assert b.label + ("  (binds)" if b.binding else "") in texts
+            # labelled on its line, or named among those other limits keep off the window
+            assert b.label + ("  (binds)" if b.binding else "") in texts or (b.label in hidden)
     # one legend entry per limit, its conditions named inside
-    assert "depth >= 0.03 m: low (line); mean, flood (dotted)" in entries
     assert "reynolds >= 4000: low (line); mean, flood (dotted)" in entries
+    # the depth and velocity floors lie behind the Reynolds floor and the pump's ceiling
+    assert "depth >= 0.03 m (low)" in hidden and "velocity >= 0.05 m/s (low)" in hidden
     assert len(entries) <= 10
     # every condition's boundary of a limit is drawn (the river's depth floor in three flows)
     assert {"depth >= 0.03 m (low)", "depth >= 0.03 m (mean)", "depth >= 0.03 m (flood)"} <= {
@@ -343,3 +346,140 @@ def test_caption_says_when_the_solver_design_is_on_the_front() -> None:
     assert "lies on this front here; it need not" in title
     assert "single point" in title
     assert "lies on this front here" in format_front(f).replace("\n", " ")
+
+
+def _nu_water(t_kelvin: float) -> float:
+    """Kinematic viscosity of liquid water at 1 atm [m^2/s], IAPWS-95 through the iapws
+    library (Wagner & Pruss 2002; IAPWS 2008 viscosity formulation), the oracle."""
+    from iapws import IAPWS95
+
+    w = IAPWS95(T=t_kelvin, P=0.101325)
+    return float(w.mu / w.rho)
+
+
+def test_front_group_axis_as_model_value_on_a_log_axis(river: Case, tmp_path: Path) -> None:
+    """``--mismatch value``: the x axis is the model's Reynolds number V h / nu (Reynolds
+    1883, its usual definition) on a log axis, in the river's low flow (where its floor
+    applies), with the prototype's value as a line labelled "prototype" and the case's floor
+    as a dashed line. The plotted values are recomputed from each design's ratios with water's
+    viscosity from IAPWS-95 (iapws library); the prototype's low flow is V = 0.6 m/s,
+    h = 1.1 m at 10 degC (cases/river_bend.toml)."""
+    f = trace_front(river, ["reynolds", "discharge"], points=20)
+    fig = front_figure(f, "value")
+    ax = fig.axes[0]
+    assert ax.get_xscale() == "log"
+    assert ax.get_xlabel() == "reynolds in the model (low) [-]"
+    shown = np.asarray(ax.collections[0].get_offsets())[:, 0]
+    oracle = [
+        0.6
+        * pt.design.velocity_ratio
+        * 1.1
+        * pt.design.vertical_ratio
+        / _nu_water(pt.design.temperature)
+        for pt in f.points
+    ]
+    np.testing.assert_allclose(shown, oracle, rtol=2e-3)
+    proto = 0.6 * 1.1 / _nu_water(283.15)
+    # |ln(model/prototype)| of the plotted values is the front's own axis value (linear form)
+    np.testing.assert_allclose(np.abs(np.log(shown / proto)), f.values[:, 0], atol=2e-3)
+    refs = {t.get_gid(): t for t in ax.texts if (t.get_gid() or "").startswith("reference:")}
+    assert set(refs) == {
+        "reference:reynolds:prototype",
+        "reference:reynolds:case limit: reynolds >= 4000",
+    }
+    lines = {round(float(ln.get_xdata()[0]), 6): ln.get_linestyle() for ln in ax.lines}
+    assert any(abs(x / proto - 1) < 2e-3 and ls == "-." for x, ls in lines.items())
+    assert lines.get(4000.0) == "--"
+    lo, hi = ax.get_xlim()
+    assert lo < 4000 and proto < hi  # the floor and the prototype's value are in view
+    svg = _svg_text(fig, tmp_path, river).replace("&gt;", ">")  # the SVG keeps the words
+    assert "prototype" in svg and "reynolds in the model (low)" in svg
+    assert "case limit: reynolds >= 4000" in svg
+
+
+def _boundary_lines(fig: Any) -> dict[str, np.ndarray]:
+    """The vertices of every drawn boundary (artists tagged ``boundary:KEY``), per limit."""
+    out: dict[str, list[np.ndarray]] = {}
+    for ln in fig.axes[0].lines:
+        gid = ln.get_gid() or ""
+        if gid.startswith("boundary:"):
+            out.setdefault(gid.split(":", 1)[1], []).append(np.asarray(ln.get_xydata()))
+    return {k: np.vstack(v) for k, v in out.items()}
+
+
+def test_temperature_axis_draws_each_limit_where_it_binds() -> None:
+    """The culvert's map over the ratio and the water temperature. Every vertex of every
+    drawn boundary is re-evaluated as a design (a Froude model with no distortion: at ratio X,
+    Y = X and V = sqrt(X), Froude 1880s similitude, common practice), with the fluids' source
+    property models: there that limit holds with (almost) no slack and no other limit is
+    violated. The Reynolds floor binds in cold water along a curve (the viscosity falls as the
+    water warms, so a smaller model suffices) and stops where the Weber floor takes over: it is
+    not drawn in warm water, where it would run through cells the Weber floor excludes."""
+    from compromise.solving.design import Design, evaluate_design
+
+    case = load_case(ROOT / "cases" / "culvert_si.toml")
+    dm = design_map(case, ["horizontal_ratio", "temperature"], resolution=31)
+    fig = map_figure(dm)
+    lines = _boundary_lines(fig)
+    assert {"groups.reynolds.min", "groups.weber.min", "limits.discharge.max"} <= set(lines)
+    for key, pts in lines.items():
+        name, kind = key.split(".")[1:3]
+        for x, t in pts[:: max(1, len(pts) // 12)]:
+            ev = evaluate_design(case, Design("water", t + 273.15, 101325.0, x, x, x**0.5))
+            worst = ev.worst_limits()
+            assert abs(worst[f"{name}.{kind}"][1].margin) < 0.01, (key, x, t)
+            assert min(v.margin for _, v in worst.values()) > -0.01, (key, x, t)
+    re = lines["groups.reynolds.min"]
+    assert np.ptp(np.log(re[:, 0])) > 0.02  # a curve in X, not a vertical line
+    assert re[:, 1].min() <= 10.0 + 1e-6 and re[:, 1].max() < 15.0  # cold water only
+    full = dm.boundaries[[b.key for b in dm.boundaries].index("groups.reynolds.min")]
+    assert np.any(full.violation[-1] > 0) and np.any(full.violation[-1] <= 0)  # crosses at 25 C
+    # the depth floor lies behind the Weber floor everywhere: named, not drawn
+    assert "limits.depth.min" not in lines
+    assert any(e.startswith("not drawn, other limits bind first: depth") for e in _legend(fig))
+
+
+def _rho_water(t_kelvin: float) -> float:
+    """Density of liquid water at 1 atm [kg/m^3], IAPWS-95 (iapws library), the oracle."""
+    from iapws import IAPWS95
+
+    return float(IAPWS95(T=t_kelvin, P=0.101325).rho)
+
+
+def test_granular_map_draws_the_armour_reynolds_floor_along_its_curve() -> None:
+    """The breakwater's map over the ratio and the basin water's temperature draws each
+    limit's boundary (it drew none). In an undistorted Froude model with the stability number
+    H / (Delta D) kept exactly (Hudson 1959, from memory), the model wave height is 5 m x X
+    and the armour size D = H / (Delta Ns), so the armour Reynolds number sqrt(g H) D / nu is
+    proportional to X^1.5 / (nu Delta) with Delta = rho_s / rho - 1: along the floor
+    Re = 3e4 the product X^1.5 / (nu(T) Delta(T)) is constant, with water's nu and rho from
+    IAPWS-95 (iapws library) and the model stone's 2650 kg/m^3 (crushed granite of the
+    material catalogue). The line is therefore slanted, not vertical."""
+    from compromise.physics.materials import get_material
+
+    dm = design_map(load_case(ROOT / "cases" / "breakwater.toml"), resolution=41)
+    assert dm.axes == ("horizontal_ratio", "temperature")
+    assert dm.optimum is not None and dm.optimum.material is not None
+    rho_s = get_material(dm.optimum.material).density
+    lines = _boundary_lines(map_figure(dm))
+    assert {"groups.armour_reynolds.min", "limits.wave_height.max"} <= set(lines)
+    re = lines["groups.armour_reynolds.min"]
+    assert re[:, 1].min() <= 15.0 + 1e-6 and re[:, 1].max() >= 22.0 - 1e-6  # binds throughout
+    k = [x**1.5 / (_nu_water(t + 273.15) * (rho_s / _rho_water(t + 273.15) - 1.0)) for x, t in re]
+    assert np.ptp(np.log(k)) < 0.01
+    assert np.ptp(np.log(re[:, 0])) > 0.05  # a warmer basin allows a smaller model
+
+
+def test_granular_sliver_window_is_zoomed_between_its_two_limits() -> None:
+    """The heron reach's window over the ratio is the sliver between the depth floor and the
+    hall's length: depth 3 m x X x distortion >= 7 cm with the distortion at most 5 gives
+    X >= 0.07 / 15 = 1:214.3, and the 6 km reach x X <= 30 m gives X <= 1:200
+    (cases/heron_reach.toml, arithmetic). The map zooms onto it, and the two limits' lines
+    sit at those ratios."""
+    dm = design_map(load_case(ROOT / "cases" / "heron_reach.toml"), resolution=41)
+    assert dm.zoomed == (True, False) and dm.feasible_share > 0.2
+    assert dm.x[0] < 1 / 214.3 and 1 / 200 < dm.x[-1] and dm.x[-1] / dm.x[0] < 1.5
+    lines = _boundary_lines(map_figure(dm))
+    np.testing.assert_allclose(lines["limits.depth.min"][:, 0], 0.07 / 15, rtol=1e-3)
+    np.testing.assert_allclose(lines["limits.reach_length.max"][:, 0], 1 / 200, rtol=1e-3)
+    assert "the map is zoomed onto it" in format_map(dm)

@@ -74,9 +74,10 @@ def tradeoff(
         str,
         typer.Option(
             "--mismatch",
-            help="How the figure shows a group's mismatch: 'percent' (how far the model's "
-            "value is off the prototype's) or 'log' (|ln(model/prototype)|). The CSV and JSON "
-            "keep |ln|.",
+            help="How the figure shows a group: 'percent' (how far the model's value is off "
+            "the prototype's), 'value' (the group's model value on a log axis, the prototype's "
+            "value drawn as a line) or 'log' (|ln(model/prototype)|). The CSV and JSON keep "
+            "|ln|.",
             show_default=True,
         ),
     ] = "percent",
@@ -92,9 +93,10 @@ def tradeoff(
         from compromise.presentation.explore_tables import format_front, write_front
         from compromise.review.provenance import stamped
 
-        if mismatch not in ("percent", "log"):
+        if mismatch not in ("percent", "value", "log"):
             raise CaseError(
-                f"--mismatch must be 'percent' or 'log', not '{mismatch}'", key="--mismatch"
+                f"--mismatch must be 'percent', 'value' or 'log', not '{mismatch}'",
+                key="--mismatch",
             )
         check_output_folder(out or Path("out") / case.stem)
         front = trace_front(

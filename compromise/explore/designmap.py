@@ -25,9 +25,11 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.envelope import StateSpace, lower_envelope
+from compromise.explore.map_parts import Boundary, row_label
+from compromise.explore.map_parts import zoom_ranges as _zoom
 from compromise.solving.design import Design
 from compromise.solving.grid import REGULARISATION, Engine, FluidStates, best_state
-from compromise.solving.problem import Problem, Row, build_problem
+from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import SmallQP
 from compromise.solving.threads import one_blas_thread
 
@@ -49,40 +51,7 @@ _NORMALS = {
     "velocity_ratio": np.array([0.0, 0.0, 1.0]),
 }
 MAP_ZOOM_ROUNDS = 3
-#: A feasible window narrower than this share of an axis's range (log for ratios) is a sliver:
-#: by default the map zooms that axis onto it (common practice for a readable figure).
-SLIVER = 0.2
 SCOUT_RESOLUTION = 41
-
-
-@dataclass(frozen=True)
-class Boundary:
-    """One limit on the map.
-
-    Attributes
-    ----------
-    key : str
-        Case-file key of the bound (``limits.reach.max``).
-    label : str
-        Short text for the plot (``reach <= 40 m``).
-    violation : numpy.ndarray
-        (n_vertical, n_horizontal) least log-violation ``ln(model / bound)`` (sign so that
-        positive means violated) the other variables can reach [-]; its zero level is the
-        boundary.
-    binding : bool
-        Whether the limit binds at the optimum of the map's fluid.
-    """
-
-    key: str
-    label: str
-    violation: np.ndarray = field(repr=False)
-    binding: bool = False
-
-    @property
-    def excluded(self) -> float:
-        """Fraction of the map where this limit alone cannot hold [-]."""
-        v = self.violation
-        return float(np.mean(~(v <= 1e-9))) if v.size else 0.0
 
 
 @dataclass(frozen=True)
@@ -236,19 +205,6 @@ def _pressure_matters(case: Case) -> bool:
     return any(FluidStates(case, f, used).pressures().size > 1 for f in case.model.fluids)
 
 
-def row_label(case: Case, row: Row) -> str:
-    """``reach <= 40 m``, ``reynolds >= 4000``, ``distortion <= 5``."""
-    op = "<=" if row.side == "max" else ">="
-    if row.kind == "limit":
-        unit = case.quantities[row.name].unit
-        return f"{row.name} {op} {row.bound:.4g}" + ("" if unit == "-" else f" {unit}")
-    if row.kind == "bound" and row.name == "horizontal_ratio":
-        from compromise.units import format_ratio
-
-        return f"X {op} {format_ratio(row.bound)}"
-    return f"{row.name} {op} {row.bound:.4g}"
-
-
 def _range(
     case: Case, problem: Problem, axis: str, fs: FluidStates, y_opt: np.ndarray | None
 ) -> tuple[float, float]:
@@ -323,8 +279,9 @@ def design_map(
         Temperature grid before the zoom (when temperature is not an axis).
     full_range : bool
         Draw each axis over its whole range. By default an axis on which the feasible window
-        is a sliver (narrower than :data:`SLIVER` of the range, found on a coarse scouting
-        grid) is zoomed onto the window, with half its width as margin on either side.
+        is a sliver (narrower than :data:`compromise.explore.map_parts.SLIVER` of the range,
+        found on a coarse scouting grid) is zoomed onto the window, with half its width as
+        margin on either side.
 
     Returns
     -------
@@ -345,7 +302,12 @@ def design_map(
 
         return DesignMap(
             **granular_map(
-                case, axes, fluid=fluid, resolution=resolution, n_temperatures=n_temperatures
+                case,
+                axes,
+                fluid=fluid,
+                resolution=resolution,
+                n_temperatures=n_temperatures,
+                full_range=full_range,
             )
         )
     if "grain_size" in axes:
@@ -490,39 +452,6 @@ def design_map(
         tuple(full),
         (zoomed[0], zoomed[1]),
     )
-
-
-def _zoom(
-    axes: tuple[str, ...],
-    full: list[tuple[float, float]],
-    grids: list[np.ndarray],
-    feasible: np.ndarray,
-) -> tuple[list[tuple[float, float]], list[bool]]:
-    """The ranges of the map: an axis on which the feasible cells of the scouting grid span
-    less than :data:`SLIVER` of the range is narrowed to them, one scouting cell and half the
-    window's width added on either side (within the full range)."""
-    ranges, zoomed = list(full), [False, False]
-    if not feasible.any():
-        return ranges, zoomed
-    for which in (0, 1):
-        g = grids[which]
-        lin = axes[which] == "temperature"
-        t = g if lin else np.log(g)
-        hit = np.nonzero(feasible.any(axis=0 if which == 0 else 1))[0]
-        i0, i1 = max(int(hit[0]) - 1, 0), min(int(hit[-1]) + 1, len(g) - 1)
-        span = float(t[-1] - t[0])
-        width = float(t[i1] - t[i0])
-        if span <= 0 or width >= SLIVER * span:
-            continue
-        lo, hi = float(t[i0]) - 0.5 * width, float(t[i1]) + 0.5 * width
-        lo, hi = max(lo, float(t[0])), min(hi, float(t[-1]))
-        ranges[which] = (lo, hi) if lin else (math.exp(lo), math.exp(hi))
-        if lo <= t[0] + 1e-12 * max(1.0, abs(t[0])):
-            ranges[which] = (full[which][0], ranges[which][1])
-        if hi >= t[-1] - 1e-12 * max(1.0, abs(t[-1])):
-            ranges[which] = (ranges[which][0], full[which][1])
-        zoomed[which] = True
-    return ranges, zoomed
 
 
 def _boundaries(

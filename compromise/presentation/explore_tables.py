@@ -42,7 +42,7 @@ def _short(design: Any) -> str:
 def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> list[Path]:
     """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths. The CSV
     keeps the axes' own units (a group's ``|ln(model/prototype)|``); the figure shows a group's
-    mismatch in % unless ``mismatch`` is ``"log"``."""
+    mismatch in % unless ``mismatch`` is ``"value"`` (its model value) or ``"log"``."""
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / ("tradeoff_" + "_".join(front.names))
@@ -100,8 +100,9 @@ def format_front(front: Front, rows: int = 12) -> str:
     names = " vs ".join(f"{a.label} [{a.unit}]" for a in front.axes)
     if not front.points:
         return "\n".join([*out, f"Pareto front of {names}: no feasible design.", "", CAUTION])
+    plural = "s" if len(front.points) != 1 else ""
     out.append(
-        f"Pareto front of {names}: {len(front.points)} points (exact, epsilon-constraint;"
+        f"Pareto front of {names}: {len(front.points)} point{plural} (exact, epsilon-constraint;"
         f" {front.primary} minimised)."
     )
     for a in front.axes:

@@ -2,8 +2,10 @@
 :func:`compromise.explore.tradeoffs.trace_front`).
 
 Axes are shown in the units people present: a group's mismatch as how far the model's value is
-off the prototype's, in % (``100 (exp|ln(model/prototype)| - 1)``), or, as an option, the
-log-ratio itself; a model quantity as its value (a log axis when it spans more than a decade).
+off the prototype's, in % (``100 (exp|ln(model/prototype)| - 1)``), or, as options, the group's
+model value on a log axis with the prototype's value drawn as a reference line (``value``), or
+the log-ratio itself (``log``); a model quantity as its value (a log axis when it spans more
+than a decade).
 The knee is marked only when the front bends (:attr:`Front.has_knee`); the callouts of the knee
 and of the solver's design are placed from the data, clear of the points, of each other and of
 the limit labels. Three axes are drawn as one scatter of the first two coloured by the third.
@@ -12,6 +14,7 @@ the limit labels. Three axes are drawn as one scatter of the first two coloured 
 from __future__ import annotations
 
 import textwrap
+from dataclasses import dataclass
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
@@ -25,7 +28,7 @@ if TYPE_CHECKING:
 
     from compromise.explore.tradeoffs import Axis, Front
 
-MISMATCH_UNITS = ("percent", "log")
+MISMATCH_UNITS = ("percent", "value", "log")
 MARKERS = ("o", "s", "^", "D", "v", "P")
 
 
@@ -49,13 +52,80 @@ def shown_values(axis: Axis, values: np.ndarray, mismatch: str = "percent") -> n
     return v
 
 
-def axis_label(axis: Axis, mismatch: str = "percent") -> str:
-    """The axis title with its unit in brackets."""
+def axis_label(axis: Axis, mismatch: str = "percent", condition: str = "") -> str:
+    """The axis title with its unit in brackets (``condition``: where a group's model value is
+    taken, named when the case's conditions give the group different values)."""
     if axis.kind == "group":
+        if mismatch == "value":
+            return f"{axis.name} in the model" + (f" ({condition})" if condition else "") + " [-]"
         if mismatch == "percent":
             return f"{axis.name}: model off the prototype by [%]"
         return f"{axis.name} mismatch |ln(model/prototype)| [-]"
     return f"{axis.label} [{axis.unit}]"
+
+
+@dataclass(frozen=True)
+class GroupValues:
+    """A group axis shown as the group's model value (``--mismatch value``).
+
+    Attributes
+    ----------
+    points : numpy.ndarray
+        The group's model value at every point of the front [-].
+    chosen : float or None
+        At the solver's design.
+    prototype : float
+        The prototype's value, drawn as a reference line [-].
+    condition : str
+        The condition whose values are shown (the one where the group's floor, else its
+        ceiling, applies; the largest prototype value without either), "" when every
+        condition gives the group the same value.
+    limits : tuple of (str, float)
+        The case's ``min`` / ``max`` on the group that apply in that condition.
+    sign : float
+        +1 or -1 when every point has the model value on one side of the prototype's (the
+        sign of ``ln(model/prototype)``), else 0.
+    """
+
+    points: np.ndarray
+    chosen: float | None
+    prototype: float
+    condition: str
+    limits: tuple[tuple[str, float], ...]
+    sign: float
+
+
+def group_values(front: Front, axis: Axis) -> GroupValues:
+    """The model values of a group along a front, from the designs evaluated with the fluids'
+    source property models (:func:`compromise.solving.design.evaluate_design`)."""
+    from compromise.solving.design import evaluate_design
+
+    case = front.case
+    g = case.groups[axis.name]
+    designs = [pt.design for pt in front.points]
+    if front.chosen is not None:
+        designs.append(front.chosen.design)
+    evals = [evaluate_design(case, d) for d in designs]
+    protos = np.array(
+        [c.groups[axis.name].prototype for c in evals[0].conditions] if evals else [1.0]
+    )
+    i = int(np.argmin(protos)) if g.min is not None else int(np.argmax(protos))
+    same = bool(np.all(np.abs(protos - protos[0]) <= 1e-12 * abs(protos[0])))
+    condition = "" if same else case.conditions[i].name
+    limits: list[tuple[str, float]] = []
+    if g.min is not None:
+        limits.append((">=", g.min))
+    if g.max is not None and (same or i == int(np.argmax(protos))):
+        limits.append(("<=", g.max))
+    model = np.array([ev.conditions[i].groups[axis.name].model for ev in evals])
+    chosen = None
+    if front.chosen is not None:
+        chosen, model = float(model[-1]), model[:-1]
+    proto = float(protos[i])
+    r = np.log(np.append(model, [] if chosen is None else [chosen]) / proto)
+    r = np.where(np.abs(r) < 1e-9, 0.0, r)
+    sign = 1.0 if np.all(r >= 0) else (-1.0 if np.all(r <= 0) else 0.0)
+    return GroupValues(model, chosen, proto, condition, tuple(limits), sign)
 
 
 def front_caption(front: Front) -> str:
@@ -111,6 +181,14 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
                 for a, x in zip(front.axes, front.chosen.values, strict=True)
             ]
         )
+    gvals: dict[int, GroupValues] = {}
+    if mismatch == "value":  # a group's model value, from the designs themselves
+        for j, a in enumerate(front.axes):
+            if a.kind == "group" and front.points:
+                gvals[j] = group_values(front, a)
+                shown[:, j] = gvals[j].points
+                if chosen is not None and gvals[j].chosen is not None:
+                    chosen[j] = gvals[j].chosen
     norm = None
     if k == 3 and len(shown):
         from matplotlib.colors import LogNorm, Normalize
@@ -119,13 +197,23 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
         lo, hi = float(np.min(c)), float(np.max(c))
         if hi <= lo:
             lo, hi = lo - 0.5 * max(abs(lo), 1e-3), hi + 0.5 * max(abs(hi), 1e-3)
-        norm = LogNorm(lo, hi) if lo > 0 and hi / lo > 20 else Normalize(lo, hi)
+        if 2 in gvals:
+            lo, hi = min(lo, gvals[2].prototype), max(hi, gvals[2].prototype)
+        log_c = lo > 0 and (hi / lo > 20 or 2 in gvals)
+        norm = LogNorm(lo, hi) if log_c else Normalize(lo, hi)
     if k == 2 and len(front.fluid_fronts) > 1:
         for f, fv in front.fluid_fronts.items():
             if len(fv) < 2:
                 continue
+            if any(gv.sign == 0.0 for gv in gvals.values()):
+                continue  # the side of the prototype's value is not known for these points
             fs = np.column_stack(
-                [shown_values(a, fv[:, j], mismatch) for j, a in enumerate(front.axes)]
+                [
+                    gvals[j].prototype * np.exp(gvals[j].sign * fv[:, j])
+                    if j in gvals
+                    else shown_values(a, fv[:, j], mismatch)
+                    for j, a in enumerate(front.axes)
+                ]
             )
             o = np.argsort(fs[:, 0])
             ax.plot(
@@ -186,16 +274,41 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
             zorder=5,
             label="solver's design",
         )
-    _scales(ax, front, shown, chosen)
+    _scales(ax, front, shown, chosen, gvals)
     limit_labels = _limit_lines(ax, front, mismatch)
-    ax.set_xlabel(axis_label(front.axes[0], mismatch))
-    ax.set_ylabel(axis_label(front.axes[1], mismatch))
+    marks = shown[:, :2] if chosen is None else np.vstack([shown[:, :2], chosen[None, :2]])
+    limit_labels += _prototype_lines(ax, front, gvals, marks)
+
+    def label(j: int) -> str:
+        return axis_label(front.axes[j], mismatch, gvals[j].condition if j in gvals else "")
+
+    ax.set_xlabel(label(0))
+    ax.set_ylabel(label(1))
     ax.grid(True, color="0.9", lw=0.6)
     ax.set_axisbelow(True)
     if k == 3 and scatter is not None:
         cb = fig.colorbar(scatter, ax=ax, shrink=0.92)
-        cb.set_label(axis_label(front.axes[2], mismatch))
+        cb.set_label(label(2))
+        if norm is not None and norm.__class__.__name__ == "LogNorm":
+            from matplotlib.ticker import FuncFormatter, LogLocator
+
+            # plain numbers at 1, 2 and 5 times the powers of ten (0.1, 0.2, 0.5, 1), not 10^-1
+            cb.ax.yaxis.set_major_locator(LogLocator(subs=(1.0, 2.0, 5.0)))
+            cb.ax.yaxis.set_major_formatter(FuncFormatter(lambda v, _: fmt(v, 3)))
+            cb.ax.yaxis.set_minor_formatter(FuncFormatter(lambda v, _: ""))
         a = front.axes[2]
+        if 2 in gvals and norm is not None and norm.vmin <= gvals[2].prototype <= norm.vmax:
+            cb.ax.axhline(gvals[2].prototype, color="black", ls="-.", lw=1.4)
+            cb.ax.text(
+                -0.15,
+                gvals[2].prototype,
+                "prototype",
+                transform=cb.ax.get_yaxis_transform(),
+                ha="right",
+                va="center",
+                fontsize=8,
+                rotation=90,
+            )
         if (
             a.lifted
             and a.case_bound is not None
@@ -282,9 +395,17 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
     return fig
 
 
-def _scales(ax: Axes, front: Front, shown: np.ndarray, chosen: np.ndarray | None) -> None:
-    """A log scale for an axis spanning more than a decade of positive values; no offset
-    notation; a visible range around a single point."""
+def _scales(
+    ax: Axes,
+    front: Front,
+    shown: np.ndarray,
+    chosen: np.ndarray | None,
+    gvals: dict[int, GroupValues] | None = None,
+) -> None:
+    """A log scale for an axis spanning more than a decade of positive values, and for a
+    group's model value (its prototype value and limits kept in view); no offset notation; a
+    visible range around a single point."""
+    gvals = gvals or {}
     for j, (set_scale, set_lim) in enumerate(
         ((ax.set_xscale, ax.set_xlim), (ax.set_yscale, ax.set_ylim))
     ):
@@ -295,9 +416,15 @@ def _scales(ax: Axes, front: Front, shown: np.ndarray, chosen: np.ndarray | None
         a = front.axes[j]
         if a.lifted and a.case_bound is not None:
             vals = np.append(vals, a.case_bound)
+        if j in gvals:
+            gv = gvals[j]
+            vals = np.append(vals, [gv.prototype, *(b for _, b in gv.limits)])
         lo, hi = float(np.min(vals)), float(np.max(vals))
-        if lo > 0 and hi / lo > 10:
+        if lo > 0 and (hi / lo > 10 or j in gvals):
             set_scale("log")
+            if j in gvals:  # a margin of a twentieth of the span (in log) either side
+                pad = (hi / lo) ** 0.05 if hi > lo * (1 + 1e-9) else 1.5
+                set_lim(lo / pad, hi * pad)
         elif hi - lo <= 1e-6 * max(abs(hi), 1e-12):
             if hi == 0.0:  # a mismatch of nil: the axis starts at 0, as a mismatch does
                 set_lim(-0.05, 1.0)
@@ -345,6 +472,61 @@ def _limit_lines(ax: Axes, front: Front, mismatch: str) -> list[Any]:
             )
         t.set_bbox({"boxstyle": "square,pad=0.25", "fc": "white", "ec": "none", "alpha": 0.85})
         texts.append(t)
+    return texts
+
+
+def _prototype_lines(
+    ax: Axes, front: Front, gvals: dict[int, GroupValues], points: np.ndarray
+) -> list[Any]:
+    """A group's prototype value (dash-dot, labelled "prototype") and the case's limits on it
+    (dashed) on the axes that show the group's model value."""
+    texts = []
+    for j, gv in gvals.items():
+        if j > 1:
+            continue
+        name = front.axes[j].name
+        u = (ax.transData + ax.transAxes.inverted()).transform(points)
+        lines = [("prototype", gv.prototype, "-.", "0.1")]
+        lines += [(f"case limit: {name} {op} {fmt(b)}", b, "--", "0.3") for op, b in gv.limits]
+        for text, value, ls, colour in lines:
+            # the label where it covers the fewest points (and the solver's design): at the
+            # start, the middle or the end of its line
+            at = (ax.transData + ax.transAxes.inverted()).transform([[value, value]])[0, j]
+            near = np.abs(u[:, j] - at) < 0.06
+            crowd = [
+                np.count_nonzero(near & (np.abs(u[:, 1 - j] - c) < 0.2)) for c in (0.1, 0.9, 0.5)
+            ]
+            end = (0.02, 0.98, 0.5)[int(np.argmin(crowd))]
+            if j == 0:
+                ax.axvline(value, color=colour, ls=ls, lw=1.1, zorder=1)
+                t = ax.text(
+                    value,
+                    end,
+                    text,
+                    transform=ax.get_xaxis_transform(),
+                    rotation=90,
+                    ha="right",
+                    va={0.02: "bottom", 0.98: "top"}.get(end, "center"),
+                    fontsize=8,
+                    color="0.1",
+                    zorder=2.5,  # under the points
+                )
+            else:
+                ax.axhline(value, color=colour, ls=ls, lw=1.1, zorder=1)
+                t = ax.text(
+                    {0.02: 0.01, 0.98: 0.99}.get(end, 0.5),
+                    value,
+                    text,
+                    transform=ax.get_yaxis_transform(),
+                    ha={0.02: "left", 0.98: "right"}.get(end, "center"),
+                    va="bottom",
+                    fontsize=8,
+                    color="0.1",
+                    zorder=2.5,  # under the points
+                )
+            t.set_gid(f"reference:{name}:{text}")
+            t.set_bbox({"boxstyle": "square,pad=0.25", "fc": "white", "ec": "none", "alpha": 0.85})
+            texts.append(t)
     return texts
 
 

@@ -15,6 +15,7 @@ import numpy as np
 
 from compromise.presentation.figures import add_footer, new_figure, save_figure, short_label
 from compromise.presentation.front_plot import front_figure
+from compromise.presentation.map_lines import split_at_other_limits
 from compromise.presentation.sensitivity_plot import sensitivity_figure
 
 __all__ = ["front_figure", "map_figure", "save_figure", "sensitivity_figure", "short_label"]
@@ -237,56 +238,99 @@ def map_figure(dmap: DesignMap) -> Figure:
     # one colour per limit; the same limit in a looser condition (key "...@condition") is a
     # thin dotted line of the same colour, without ticks or an on-line label. A boundary that
     # runs on top of one already drawn is dashed, so that the one beneath shows in its gaps.
+    # A limit's line is drawn only where that limit closes the window: where another limit
+    # already excludes the cells, its line is left out (map_lines.split_at_other_limits).
     base_keys = list(dict.fromkeys(b.key.split("@")[0] for b in dmap.boundaries))
+    fields = {b.key: np.where(np.isfinite(b.violation), b.violation, 1e3) for b in dmap.boundaries}
     drawn: list[tuple[str, np.ndarray]] = []
     entries: dict[str, dict[str, Any]] = {}
     for b in dmap.boundaries:
         g = b.violation
-        if not (np.any(g > 0) and np.any(g <= 0)):
+        # cells where the [model] bounds alone leave nothing (inf) are no part of the limit's
+        # boundary: its line is the zero level of its finite values only
+        if not (np.any(np.isfinite(g) & (g > 0)) and np.any(g <= 0)):
             continue
         base = b.key.split("@")[0]
         n = base_keys.index(base)
         colour = colours[n % len(colours)]
         looser = "@" in b.key
         style: Any = ":" if looser else LINE_STYLES[(n // len(colours)) % len(LINE_STYLES)]
-        on_top = None
-        if not looser:
-            field = np.where(np.isfinite(g), g, 1e3)
-            probe = ax.contour(gx, gy, field, levels=[0.0])
-            segs0 = [sg for sg in probe.allsegs[0] if len(sg) > 1]
+        if looser:
+            if not entries.get(base, {}).get("closes", True):
+                continue  # behind its own tighter condition, itself behind other limits
+            ax.contour(
+                gx,
+                gy,
+                fields[b.key],
+                levels=[0.0],
+                colors=[colour],
+                linewidths=1.0,
+                linestyles=[style],
+                alpha=0.7,
+                zorder=3,
+            )
+        else:
+            probe = ax.contour(gx, gy, np.where(np.isfinite(g), g, np.nan), levels=[0.0])
+            segs = [sg for sg in probe.allsegs[0] if len(sg) > 1]
             probe.remove()
-            if segs0:
-                mine = _unit_coords(dmap, *np.vstack(segs0).T)
+            others = [f for k, f in fields.items() if k.split("@")[0] != base]
+            active, _ = split_at_other_limits(dmap, segs, others) if feasible.any() else (segs, [])
+            on_top = None
+            if active:
+                mine = _unit_coords(dmap, *np.vstack(active).T)
                 on_top = _coincides(mine, drawn)
                 drawn.append((_base_label(b.label), mine))
             if on_top is not None:
                 style = (0, (6, 6))
-        cs = ax.contour(
-            gx,
-            gy,
-            np.where(np.isfinite(g), g, 1e3),
-            levels=[0.0],
-            colors=[colour],
-            linewidths=1.0 if looser else (2.2 if b.binding else 1.5),
-            linestyles=[style],
-            alpha=0.7 if looser else 1.0,
-            zorder=3,
-        )
-        segs = [sg for sg in cs.allsegs[0] if len(sg) > 1]
-        if not looser:
-            cs.set(path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)])
-            if segs:
+            for piece in active:
+                ax.plot(
+                    piece[:, 0],
+                    piece[:, 1],
+                    color=colour,
+                    lw=2.2 if b.binding else 1.5,
+                    ls=style,
+                    zorder=3,
+                    gid=f"boundary:{b.key}",
+                    path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)],
+                )
+            if active:
                 text = b.label + ("  (binds)" if b.binding else "")
                 if on_top is not None:
                     text += f"  (on {on_top})"
-                placed.append(_label_line(ax, dmap, np.vstack(segs), window, placed, text, colour))
+                placed.append(
+                    _label_line(ax, dmap, np.vstack(active), window, placed, text, colour)
+                )
         entry = entries.setdefault(
-            base, {"colour": colour, "style": style, "label": _base_label(b.label), "conds": []}
+            base,
+            {
+                "colour": colour,
+                "style": style,
+                "label": _base_label(b.label),
+                "conds": [],
+                "closes": False,
+            },
         )
         if not looser:
             entry["style"] = style
+            entry["closes"] = entry["closes"] or bool(active)
         entry["conds"].append((_condition(b.label), looser, b.binding))
-    handles.extend(_limit_entry(e) for e in entries.values())
+    handles.extend(_limit_entry(e) for e in entries.values() if e["closes"])
+    hidden = [
+        e["label"]
+        + (f" ({c})" if (c := _tight(e)) else "")
+        + (", binds at the optimum inside the window" if any(b for *_, b in e["conds"]) else "")
+        for e in entries.values()
+        if not e["closes"]
+    ]
+    if hidden:  # one entry for the limits that other limits keep off the window's edge
+        handles.append(
+            Line2D(
+                [],
+                [],
+                ls="",
+                label=_wrap("not drawn, other limits bind first: " + "; ".join(hidden)),
+            )
+        )
     if dmap.optimum is not None:
         ox, oy = dmap.coordinates(dmap.optimum)
         ax.scatter(
@@ -330,7 +374,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                     color="white",
                     edgecolors="black",
                     lw=1.0,
-                    zorder=6,
+                    zorder=5,  # under the optimum's star where they meet
                 )
         handles.append(
             Line2D(
@@ -400,7 +444,19 @@ def _limit_entry(entry: dict[str, Any]) -> Any:
         label += f" ({', '.join(tight)})"
     if binds:
         label += "  (binds at the optimum)"
-    return Line2D([], [], color=entry["colour"], lw=2, ls=entry["style"], label=label)
+    return Line2D([], [], color=entry["colour"], lw=2, ls=entry["style"], label=_wrap(label))
+
+
+def _tight(entry: dict[str, Any]) -> str:
+    """The conditions in which a limit's line is the solid one."""
+    return ", ".join(c for c, looser, _ in entry["conds"] if not looser and c)
+
+
+def _wrap(label: str, width: int = 66) -> str:
+    """A legend label on lines of at most ``width`` characters, so that two columns fit."""
+    import textwrap
+
+    return textwrap.fill(label, width, subsequent_indent="    ")
 
 
 def _coincides(mine: np.ndarray, drawn: list[tuple[str, np.ndarray]]) -> str | None:

@@ -50,7 +50,7 @@ def sensitivity_figure(sens: Sensitivity) -> Figure:
             lw=0.6,
             height=0.66,
         )
-    if sens.nominal >= 0:
+    if sens.nominal >= 0 and shares[sens.nominal] > 0:  # (an empty bar would be a sliver)
         bars[sens.nominal].set_linewidth(2.2)
         bars[sens.nominal].set_hatch("..")
     tied_nominal = len(sens.nominal_tied) > 1

@@ -7,6 +7,8 @@ References
 ----------
 Das, I. (1999). On characterizing the "knee" of the Pareto curve based on normal-boundary
 intersection. Structural Optimization 18, 107-115, from memory.
+Kung, H. T., Luccio, F., Preparata, F. P. (1975). On finding the maxima of a set of vectors.
+Journal of the ACM 22(4), 469-476, from memory.
 Ishibuchi, H., Masuda, H., Tanigaki, Y., Nojima, Y. (2015). Modified distance calculation in
 generational distance and inverted generational distance. EMO 2015, LNCS 9019, 110-125, from
 memory.
@@ -37,6 +39,8 @@ def nondominated(values: np.ndarray, tol: float = TOL) -> np.ndarray:
     t = tol * (1.0 + np.abs(v))
     if v.shape[1] == 2 and np.all(np.isfinite(v)):
         return _nondominated_2d(v, t)
+    if v.shape[1] == 3 and np.all(np.isfinite(v)):
+        return _nondominated_3d(v, t, tol)
     le = np.all(v[:, None, :] <= v[None, :, :] + t[None, :, :], axis=2)  # j no worse than i
     lt = np.any(v[:, None, :] < v[None, :, :] - t[None, :, :], axis=2)
     dominated = np.any(le & lt, axis=0)
@@ -72,6 +76,115 @@ def _nondominated_2d(v: np.ndarray, t: np.ndarray) -> np.ndarray:
     same = le_ij & le_ji
     first = np.argmax(same, axis=0)
     return cand[first == cand]
+
+
+def _first_copies(v: np.ndarray, t: np.ndarray, cand: np.ndarray, tol: float) -> np.ndarray:
+    """The candidates that no earlier point equals within the tolerance (each no worse than
+    the other), the pairwise test's duplicate rule.
+
+    Only points whose first value lies within a window around the candidate's can equal it:
+    ``|a_j - a_i| <= tol (1 + |a_i|)`` gives ``a_i >= a_j - tol (1 + |a_j|) / (1 - tol)``; the
+    window is that, widened, and every pair in it is compared exactly. Past ``tol = 0.5``
+    every point is compared.
+    """
+    n = v.shape[0]
+    order = np.argsort(v[:, 0], kind="stable")
+    a = v[order, 0]
+    if tol < 0.5:
+        lo = np.searchsorted(a, v[cand, 0] - 2.5 * t[cand, 0] - 4 * np.spacing(v[cand, 0]))
+        hi = np.searchsorted(a, v[cand, 0] + t[cand, 0], side="right")
+    else:
+        lo, hi = np.zeros(cand.size, dtype=int), np.full(cand.size, n)
+    count = hi - lo
+    earlier = np.zeros(cand.size, dtype=bool)
+    per = max(1, 4_000_000 // max(1, int(count.mean()) if count.size else 1))
+    for s in range(0, cand.size, per):
+        c, k = cand[s : s + per], count[s : s + per]
+        start = np.repeat(np.cumsum(k) - k, k)
+        pos = np.arange(int(k.sum())) - start + np.repeat(lo[s : s + per], k)
+        i = order[pos]
+        row = np.repeat(np.arange(c.size), k)
+        j = c[row]
+        same = np.all(v[i] <= v[j] + t[j], axis=1) & np.all(v[j] <= v[i] + t[i], axis=1)
+        hit = same & (i < j)
+        earlier[s : s + per] = np.bincount(row[hit], minlength=c.size) > 0
+    return cand[~earlier]
+
+
+class _PrefixStaircases:
+    """Points sorted on one axis, and for every dyadic block of that order the least third
+    value among the block's points up to each rank of the second value: the blocks of the
+    binary decomposition of a prefix answer "the least ``c`` among the first ``L`` points
+    whose ``b`` rank is below ``R``" in O(log n) searches, all queries of a level at once.
+    """
+
+    def __init__(self, b_rank: np.ndarray, c: np.ndarray) -> None:
+        n = b_rank.size
+        self.n = n
+        self.levels: list[tuple[np.ndarray, np.ndarray]] = []
+        pos = np.arange(n)
+        level = 0
+        while (1 << level) <= n:
+            block = pos >> level
+            order = np.lexsort((b_rank, block))
+            keys = block[order] * (n + 1) + b_rank[order]
+            m = c[order]
+            size = 1 << level
+            full = n - n % size  # blocks are contiguous runs of `size` entries: the least so far
+            m[:full] = np.minimum.accumulate(m[:full].reshape(-1, size), axis=1).ravel()
+            m[full:] = np.minimum.accumulate(m[full:])
+            self.levels.append((keys, m))
+            level += 1
+
+    def least(self, L: np.ndarray, R: np.ndarray) -> np.ndarray:
+        """Least ``c`` among the first ``L`` points with ``b`` rank below ``R`` (inf: none)."""
+        out = np.full(L.size, np.inf)
+        for level, (keys, m) in enumerate(self.levels):
+            has = ((L >> level) & 1).astype(bool)
+            if not has.any():
+                continue
+            q = np.flatnonzero(has)
+            block = (L[q] >> (level + 1)) << 1  # the block of bit `level` of L
+            i = np.searchsorted(keys, block * (self.n + 1) + R[q], side="left") - 1
+            ok = (i >= 0) & (keys[np.maximum(i, 0)] // (self.n + 1) == block)
+            out[q[ok]] = np.minimum(out[q[ok]], m[i[ok]])
+        return out
+
+
+def _nondominated_3d(v: np.ndarray, t: np.ndarray, tol: float) -> np.ndarray:
+    """:func:`nondominated` for three axes in O(n log^2 n) plus the survivors' duplicate check.
+
+    Point ``j`` is dominated when some ``i`` is no worse within the tolerance on all three
+    axes (``v_i <= v_j + t_j``) and better on one (``v_i < v_j - t_j``). Split by the axis
+    that is better, each case is an orthant query: does a point lie in a box open towards
+    minus infinity? Sorted on the first axis, the box's first side is a prefix; the prefix
+    is cut into dyadic blocks, and in each block the least third value below a rank of the
+    second is a prefix minimum (a sort and a sweep, in the manner of Kung, Luccio & Preparata
+    1975, batched). The comparisons are those of the pairwise test, so the answer is the same.
+    """
+    n = v.shape[0]
+    oa = np.argsort(v[:, 0], kind="stable")
+    a_sorted = v[oa, 0]
+    ob = np.argsort(v[:, 1], kind="stable")
+    b_sorted = v[ob, 1]
+    rank = np.empty(n, dtype=np.int64)
+    rank[ob] = np.arange(n)
+    tree = _PrefixStaircases(rank[oa], v[oa, 2])
+    up, down = v + t, v - t
+    dominated = np.zeros(n, dtype=bool)
+    # (side of the first axis, threshold), (side of the second, threshold), third: strict?
+    cases = (
+        (("left", down[:, 0]), ("right", up[:, 1]), (False, up[:, 2])),
+        (("right", up[:, 0]), ("left", down[:, 1]), (False, up[:, 2])),
+        (("right", up[:, 0]), ("right", up[:, 1]), (True, down[:, 2])),
+    )
+    for (sa, ta), (sb, tb), (strict, tc) in cases:
+        L = np.searchsorted(a_sorted, ta, side=sa).astype(np.int64)
+        R = np.searchsorted(b_sorted, tb, side=sb).astype(np.int64)
+        least = tree.least(L, R)
+        dominated |= least < tc if strict else least <= tc
+    cand = np.flatnonzero(~dominated)
+    return _first_copies(v, t, cand, tol) if cand.size else cand
 
 
 def knee_index(values: np.ndarray) -> int:

@@ -100,6 +100,8 @@ class WeightedQP:
         x0 = math.log(m_.horizontal_ratio[1])
         z0 = x0 + math.log(m_.distortion[0])
         self.y0 = np.array([x0, z0, 0.5 * z0])
+        #: whether the next :meth:`solve` checks every candidate at once (see there)
+        self.check_all = False
 
     def prepare(self, W: np.ndarray) -> tuple[np.ndarray, ...]:
         """Per-sample maps from the right-hand side ``[-f, e, h]`` to the candidates' points
@@ -133,6 +135,7 @@ class WeightedQP:
         GM = np.einsum("ma,scar->scmr", self.problem.G, M)
         EM = np.einsum("qa,scar->scqr", self.E, M) if len(self.keep) < q else M[:, :, :0]
         c = M.shape[1]
+        self.check_all = False  # probe the least candidate first again
         return (M.reshape(S, c * 3, r), GM.reshape(S, c * m, r), EM.reshape(S, -1, r), H, reg)
 
     def solve(
@@ -143,7 +146,14 @@ class WeightedQP:
         extra_e: np.ndarray | None = None,
     ) -> tuple[np.ndarray, np.ndarray]:
         """Optimal ``y`` (S, R, 3) and weighted mismatch (S, R) for weights ``W`` (S, K) and
-        property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible."""
+        property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible.
+
+        The best candidate is the feasible one of least objective (the first of equals, as
+        ``argmin`` takes). Where the candidate of least objective is feasible it is the answer;
+        so that one is checked first (its row values ``G y``), and only the other subproblems
+        check every candidate. Where most subproblems need the full check (the previous call
+        of this batch says so), every candidate is checked at once, by the row maps.
+        """
         pr = self.problem
         YM, GM, EM, H, reg = prep
         S, R = p.shape[0], p.shape[1]
@@ -156,27 +166,85 @@ class WeightedQP:
             e = np.concatenate([e, np.broadcast_to(extra_e, (S, R, self.extra.shape[0]))], axis=2)
         rhs = np.concatenate([-f, e, h], axis=2).transpose(0, 2, 1)  # (S, r, R)
         Y = np.matmul(YM, rhs).reshape(S, c, 3, R)
-        ok = np.ones((S, c, R), dtype=bool)
-        if self.m:
-            GY = np.matmul(GM, rhs).reshape(S, c, self.m, R)
-            ht = h.transpose(0, 2, 1)[:, None]
-            ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=2)
-        if len(self.keep) < self.q:
-            EY = np.matmul(EM, rhs).reshape(S, c, self.q, R)
-            et = e.transpose(0, 2, 1)[:, None]
-            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=2)
-        ft = f.transpose(0, 2, 1)[:, None]  # (S, 1, 3, R)
-        val = np.zeros((S, c, R))
-        for a in range(3):
-            Hy = sum(H[:, a, b][:, None, None] * Y[:, :, b] for b in range(3))
-            val += Y[:, :, a] * (0.5 * Hy + ft[:, :, a])
-        val = np.where(ok, val, np.inf)
+        val = _objective(Y, H, f.transpose(0, 2, 1))  # (S, c, R)
+        if self.check_all:
+            ok = np.ones((S, c, R), dtype=bool)
+            if self.m:
+                GY = np.matmul(GM, rhs).reshape(S, c, self.m, R)
+                ht = h.transpose(0, 2, 1)[:, None]
+                ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=2)
+            if len(self.keep) < self.q:
+                EY = np.matmul(EM, rhs).reshape(S, c, self.q, R)
+                et = e.transpose(0, 2, 1)[:, None]
+                ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=2)
+            val = np.where(ok, val, np.inf)
+            best = np.argmin(val, axis=1)  # (S, R)
+            y = np.take_along_axis(Y, best[:, None, None, :], axis=1)[:, 0].transpose(0, 2, 1)
+            v = np.take_along_axis(val, best[:, None], axis=1)[:, 0]
+        else:
+            y, v = self._least_first(Y, val, h, e)
+        feasible_ = np.isfinite(v)
+        res = y @ pr.A.T + r
+        J = np.where(feasible_, np.sum(W[:, None, :] * res**2, axis=2), np.inf)
+        return y, J
+
+    def _least_first(
+        self, Y: np.ndarray, val: np.ndarray, h: np.ndarray, e: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Best point (S, R, 3) and its objective (S, R; inf: infeasible), checking the
+        candidate of least objective first (see :meth:`solve`)."""
+        pr = self.problem
+        hb = h + FEASIBILITY_TOL * (1.0 + np.abs(h))  # (S, R, m)
+        check_e = len(self.keep) < self.q
+        GT, ET = np.ascontiguousarray(pr.G.T), np.ascontiguousarray(self.E.T)
+        eb = FEASIBILITY_TOL * (1.0 + np.abs(e)) if check_e else e
+
+        def feasible(y: np.ndarray, hb: np.ndarray, e: np.ndarray, eb: np.ndarray) -> np.ndarray:
+            """y (..., 3) against rows (..., m) and (..., q)."""
+            y2 = y.reshape(-1, 3)
+            ok = np.all((y2 @ GT).reshape(*y.shape[:-1], -1) <= hb, axis=-1)
+            if check_e:
+                ok &= np.all(np.abs((y2 @ ET).reshape(*y.shape[:-1], -1) - e) <= eb, axis=-1)
+            return ok
+
         best = np.argmin(val, axis=1)  # (S, R)
         y = np.take_along_axis(Y, best[:, None, None, :], axis=1)[:, 0].transpose(0, 2, 1)
-        feasible = np.isfinite(np.take_along_axis(val, best[:, None], axis=1)[:, 0])
-        res = y @ pr.A.T + r
-        J = np.where(feasible, np.sum(W[:, None, :] * res**2, axis=2), np.inf)
-        return y, J
+        v = np.take_along_axis(val, best[:, None], axis=1)[:, 0]
+        ok = feasible(y, hb, e, eb) & (v != np.inf)  # a nan objective: argmin takes it first
+        si, ri = np.nonzero(~ok)
+        self.check_all = si.size > 0.25 * ok.size
+        if si.size:
+            Yr = Y[si, :, :, ri]  # (P, c, 3)
+            okr = feasible(Yr, hb[si, ri][:, None], e[si, ri][:, None], eb[si, ri][:, None])
+            vr = np.where(okr, val[si, :, ri], np.inf)
+            br = np.argmin(vr, axis=1)
+            y[si, ri] = Yr[np.arange(si.size), br]
+            v[si, ri] = vr[np.arange(si.size), br]
+        return y, v
+
+
+def _objective(Y: np.ndarray, H: np.ndarray, ft: np.ndarray) -> np.ndarray:
+    """``1/2 y'Hy + f'y`` of every candidate point: Y (S, c, 3, R), H (S, 3, 3), ft (S, 3, R).
+
+    The products and sums in the order ``sum_a y_a (1/2 sum_b H_ab y_b + f_a)``, into
+    buffers reused across the terms."""
+    S, c, _, R = Y.shape
+    val = np.empty((S, c, R))
+    hy = np.empty_like(val)
+    tmp = np.empty_like(val)
+    for a in range(3):
+        np.multiply(H[:, a, 0][:, None, None], Y[:, :, 0], out=hy)
+        for b in (1, 2):
+            np.multiply(H[:, a, b][:, None, None], Y[:, :, b], out=tmp)
+            hy += tmp
+        hy *= 0.5
+        hy += ft[:, None, a]
+        if a == 0:
+            np.multiply(Y[:, :, 0], hy, out=val)
+        else:
+            np.multiply(Y[:, :, a], hy, out=tmp)
+            val += tmp
+    return val
 
 
 @dataclass(frozen=True)

@@ -397,6 +397,28 @@ def test_front_group_axis_as_model_value_on_a_log_axis(river: Case, tmp_path: Pa
     assert "case limit: reynolds >= 4000" in svg
 
 
+def test_front_value_axes_within_two_decades_read_as_plain_numbers() -> None:
+    """Both groups of the heron reach front shown as model values: each axis spans a few
+    percent, so its log-axis ticks read as plain numbers (0.61, not 6.1 x 10^-1), and the two
+    "prototype" labels, whose lines meet near a corner, do not overlap (window extents)."""
+    from matplotlib.backends.backend_agg import FigureCanvasAgg
+
+    case = load_case(ROOT / "cases" / "heron_reach.toml")
+    f = trace_front(case, ["shields", "particle_reynolds"], points=20)
+    fig = front_figure(f, "value")
+    FigureCanvasAgg(fig).draw()
+    ax = fig.axes[0]
+    assert ax.get_xscale() == "log" and ax.get_yscale() == "log"
+    labels = [t.get_text() for t in ax.get_xticklabels(minor=True) + ax.get_yticklabels()]
+    labels = [t for t in labels if t]
+    assert labels and not any("times" in t or "^" in t for t in labels)
+    refs = [t for t in ax.texts if (t.get_gid() or "").endswith(":prototype")]
+    assert len(refs) == 2
+    r = fig.canvas.get_renderer()
+    a, b = (t.get_window_extent(r) for t in refs)
+    assert not a.overlaps(b)
+
+
 def _boundary_lines(fig: Any) -> dict[str, np.ndarray]:
     """The vertices of every drawn boundary (artists tagged ``boundary:KEY``), per limit."""
     out: dict[str, list[np.ndarray]] = {}

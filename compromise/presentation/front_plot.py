@@ -431,10 +431,21 @@ def _scales(
             else:
                 pad = 0.1 * abs(hi)
                 set_lim(lo - pad, hi + pad)
-    for axis in (ax.xaxis, ax.yaxis):
+    for axis, get_scale, get_lim in (
+        (ax.xaxis, ax.get_xscale, ax.get_xlim),
+        (ax.yaxis, ax.get_yscale, ax.get_ylim),
+    ):
         fmtter = axis.get_major_formatter()
         if hasattr(fmtter, "set_useOffset"):
             fmtter.set_useOffset(False)
+        lo, hi = get_lim()
+        if get_scale() == "log" and lo > 0 and hi / lo < 100:
+            # a log axis within two decades: plain numbers (41.5, not 4.15 x 10^1)
+            from matplotlib.ticker import FuncFormatter
+
+            plain = FuncFormatter(lambda v, _pos: f"{v:.3g}")
+            axis.set_major_formatter(plain)
+            axis.set_minor_formatter(plain)
 
 
 def _limit_lines(ax: Axes, front: Front, mismatch: str) -> list[Any]:
@@ -481,6 +492,7 @@ def _prototype_lines(
     """A group's prototype value (dash-dot, labelled "prototype") and the case's limits on it
     (dashed) on the axes that show the group's model value."""
     texts = []
+    placed: list[tuple[float, float]] = []  # (x, y) in axes fractions of the labels so far
     for j, gv in gvals.items():
         if j > 1:
             continue
@@ -490,13 +502,21 @@ def _prototype_lines(
         lines += [(f"case limit: {name} {op} {fmt(b)}", b, "--", "0.3") for op, b in gv.limits]
         for text, value, ls, colour in lines:
             # the label where it covers the fewest points (and the solver's design): at the
-            # start, the middle or the end of its line
+            # start, the middle or the end of its line, and never on another such label (the
+            # prototype lines of both axes meet in a corner when both values are at an end)
             at = (ax.transData + ax.transAxes.inverted()).transform([[value, value]])[0, j]
             near = np.abs(u[:, j] - at) < 0.06
             crowd = [
                 np.count_nonzero(near & (np.abs(u[:, 1 - j] - c) < 0.2)) for c in (0.1, 0.9, 0.5)
             ]
-            end = (0.02, 0.98, 0.5)[int(np.argmin(crowd))]
+            spots = [(0.02, 0.98, 0.5)[k] for k in np.argsort(crowd, kind="stable")]
+
+            def clash(e: float, j: int = j, at: float = at) -> bool:
+                xy = (at, e) if j == 0 else (e, at)
+                return any(abs(xy[0] - a) < 0.3 and abs(xy[1] - b) < 0.3 for a, b in placed)
+
+            end = next((e for e in spots if not clash(e)), spots[0])
+            placed.append((at, end) if j == 0 else (end, at))
             if j == 0:
                 ax.axvline(value, color=colour, ls=ls, lw=1.1, zorder=1)
                 t = ax.text(

@@ -416,3 +416,34 @@ def test_granular_front_cli_table_and_refused_axes(tmp_path: Path) -> None:
     )
     assert res.exit_code == 2
     assert "reach_length" in res.output and "Traceback" not in res.output
+
+
+def test_granular_sensitivity_winners_agree_with_the_solver_at_the_sampled_weights() -> None:
+    # candidates are the materials; at the case's weights the winner and its mismatch are the
+    # solver's; for sampled weights the winner is the material the solver itself chooses when
+    # the case is given those weights (a full solve per sample, the moving-bed floor iterated)
+    import tomllib
+
+    from compromise.explore.sensitivity import weight_sensitivity
+
+    path = ROOT / "cases" / "heron_reach.toml"
+    case = load_case(path)
+    sens = weight_sensitivity(case, spread=30.0, samples=40, seed=3)
+    sol = find_optimum(case)
+    labels = [c.label for c in sens.candidates]
+    assert labels == list(case.sediment.materials)
+    assert labels[sens.nominal] == sol.design.material
+    assert sens.candidates[sens.nominal].nominal_objective == pytest.approx(sol.objective, rel=1e-6)
+    assert sens.ranges[-1].name == "grain_size"
+    assert sens.ranges[-1].nominal == pytest.approx(sol.design.grain_size * 1e3, rel=1e-6)
+    data = tomllib.loads(path.read_text())
+    for i in (0, 17, 39):
+        d = copy.deepcopy(data)
+        for g, fac in zip(sens.groups, sens.factors[i], strict=True):
+            d["groups"][g]["weight"] = d["groups"][g]["weight"] * float(fac)
+        mine = find_optimum(case_from_dict(d, path=path), alternatives=False)
+        assert labels[int(sens.winners[i])] == mine.design.material
+    again = weight_sensitivity(case, spread=30.0, samples=40, seed=3)
+    assert np.array_equal(again.winners, sens.winners)
+    res = CliRunner().invoke(app, ["sensitivity", str(path), "--samples", "50", "--json"])
+    assert res.exit_code == 0, res.output

@@ -1,0 +1,163 @@
+"""Weight sensitivity of a case with ``[sediment]``: would other weights choose another material?
+
+As in :mod:`compromise.explore.sensitivity`, every weight is multiplied by its own factor drawn
+log-uniformly from ``[1/spread, spread]`` (numpy's PCG64 generator, seeded). The candidates are
+the (model fluid, model material) pairs; for every sample each candidate's best design is the
+exact four-variable QP of :mod:`compromise.solving.granular` (the ratios and the grain size)
+with the sample's weights, at every temperature of a fine grid, and the candidate of least
+weighted mismatch wins the sample (candidates within :data:`TIE_ABS` of each other tie). The
+unrestricted optimum of a sample is the winner's design, whose ratios, temperature and grain
+size give the ranges.
+
+Two simplifications against the solver's own answer (docs/case-format.md says so too): the
+temperature is a grid of :data:`N_GRID` points (no zoom), and the moving-bed floor (model
+Shields at or above its critical value) is held at the critical value of the nominal
+optimum's grain, as on the map and the front.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from compromise.casefile.model import Case
+from compromise.explore.sensitivity_result import (
+    Candidate,
+    Sensitivity,
+    VariableRange,
+    ranges_of,
+    tied_best,
+    weights_note,
+    winners_of,
+)
+from compromise.solving.granular import N_U, GranularProblem
+from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
+from compromise.solving.qp import SmallQP
+
+N_GRID = 49  # temperatures per fluid (0.25 K over a 12 K range)
+
+
+def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> Sensitivity:
+    """The weight sensitivity of a ``[sediment]`` case (see the module docstring); the
+    arguments are those of :func:`compromise.explore.sensitivity.weight_sensitivity`."""
+    from compromise.physics.materials import get_material
+    from compromise.solving.optimum import find_optimum
+
+    sed = case.sediment
+    assert sed is not None
+    gp = GranularProblem(case)
+    K = gp.W.size
+    rng = np.random.default_rng(seed)
+    factors = np.exp(rng.uniform(-math.log(spread), math.log(spread), size=(samples, K)))
+    sol = find_optimum(case, alternatives=False)
+    floor = (
+        sol.sediment.critical_shields[1]
+        if sol.sediment is not None and sol.sediment.critical_shields is not None
+        else None
+    )
+    pairs = [(f, m) for f in case.model.fluids for m in sed.materials]
+    several = len(case.model.fluids) > 1
+    labels = [f"{m} in {f}" if several else m for f, m in pairs]
+    # every (pair, temperature): property log-ratios and the groups' constants, once
+    P_rows, C_rows, T_rows, pair_of, press = [], [], [], [], {}
+    for k, (f, m) in enumerate(pairs):
+        fs = FluidStates(case, f, gp.used)
+        P = float(fs.pressures()[0])
+        press[f] = P
+        T = grid_points(*fs.t_range, N_GRID)
+        p = fs.p(T, P)
+        P_rows.append(p)
+        C_rows.append(gp.constants(p, get_material(m).density))
+        T_rows.append(T)
+        pair_of.append(np.full(T.size, k))
+    p, c = np.vstack(P_rows), np.vstack(C_rows)
+    T_all, pair = np.concatenate(T_rows), np.concatenate(pair_of)
+    h = gp.h0 + c @ gp.Hc.T + p @ gp.P.T
+    if gp.floor_row is not None:
+        h[:, gp.floor_row] -= math.log(floor if floor is not None else 1e-300)
+    e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
+    cA = c[:, gp.sel] if gp.sel.size else np.zeros((c.shape[0], 0))
+    m_ = case.model
+    x0 = math.log(m_.horizontal_ratio[1])
+    z0 = x0 + math.log(m_.distortion[0])
+    u0 = np.array([x0, z0, 0.5 * z0, z0])
+    all_f = np.vstack([np.ones((1, K)), factors])  # row 0: the case's own weights
+    n_c = len(pairs)
+    S_all = all_f.shape[0]
+    J = np.full((S_all, n_c), np.inf)
+    best_u = np.full((S_all, n_c, N_U), np.nan)  # each candidate's best design per sample
+    best_T = np.full((S_all, n_c), np.nan)
+    for s, fac in enumerate(all_f):
+        W = gp.W * fac
+        H = 2.0 * (gp.A.T * W) @ gp.A
+        reg = REGULARISATION * max(1.0, float(np.trace(H)) / N_U)
+        qp = SmallQP(H + 2.0 * reg * np.eye(N_U), gp.G, gp.E)
+        f_lin = 2.0 * (cA * W) @ gp.A - 2.0 * reg * u0
+        batch = qp.solve(f_lin, h, e)
+        r = batch.y @ gp.A.T + cA
+        obj = np.where(batch.feasible, np.sum(W * r**2, axis=1), np.inf)
+        for k in range(n_c):
+            mine = np.flatnonzero(pair == k)
+            j = mine[int(np.argmin(obj[mine]))]
+            J[s, k], best_u[s, k], best_T[s, k] = obj[j], batch.y[j], T_all[j]
+    winners = winners_of(J)
+    best = tied_best(J)
+    alone = best.sum(axis=1) == 1
+    counts = best[1:][alone[1:]].sum(axis=0)
+    ties = best[1:][~alone[1:]].sum(axis=0)
+    cands = tuple(
+        Candidate(
+            pairs[k][0],
+            None,
+            labels[k],
+            int(counts[k]),
+            float(counts[k] / samples),
+            float(J[0, k]),
+            int(ties[k]),
+            float(ties[k] / samples),
+        )
+        for k in range(n_c)
+    )
+    # the unrestricted optimum of each sample: the winner's design (the first of tied ones)
+    y = np.full((S_all, 3), np.nan)
+    TP = np.full((S_all, 2), np.nan)
+    grain = np.full(S_all, np.nan)
+    fluid_idx = np.full(S_all, -1)
+    for s in range(S_all):
+        k = int(winners[s])
+        if k < 0:
+            continue
+        y[s] = best_u[s, k, :3]
+        grain[s] = gp.d0 * math.exp(float(best_u[s, k, 3])) * 1e3
+        TP[s] = (best_T[s, k], press[pairs[k][0]])
+        fluid_idx[s] = case.model.fluids.index(pairs[k][0])
+    ranges, optima = ranges_of(y, TP, fluid_idx, False)
+    ok = fluid_idx >= 0
+    g = grain[1:][ok[1:]]
+    q = np.quantile(g, [0.0, 0.05, 0.5, 0.95, 1.0]) if g.size else [math.nan] * 5
+    ranges = (
+        *ranges,
+        VariableRange("grain_size", "mm", float(grain[0]), *(float(x) for x in q)),
+    )
+    optima = np.column_stack([optima, np.where(ok[1:], grain[1:], np.nan)])
+    shares = {f: float(np.mean(fluid_idx[1:] == i)) for i, f in enumerate(case.model.fluids)}
+    note = weights_note(gp.objective_groups)
+    return Sensitivity(
+        case,
+        float(spread),
+        int(samples),
+        int(seed),
+        gp.objective_groups,
+        cands,
+        int(winners[0]),
+        ranges,
+        shares,
+        factors,
+        winners[1:],
+        optima,
+        tuple(int(i) for i in np.flatnonzero(best[0])),
+        int(np.sum(best[1:].sum(axis=1) > 1)),
+        note,
+        best[1:],
+    )

@@ -127,11 +127,8 @@ class _Family:
         H = np.zeros((N_U, N_U))
         for w, a, _ in quad:
             H += 2.0 * w * np.outer(a, a)
-        m = gp.case.model
         self.reg = REGULARISATION * max(1.0, float(np.trace(H)) / N_U)
-        x0 = math.log(m.horizontal_ratio[1])
-        z0 = x0 + math.log(m.distortion[0])
-        self.u0 = np.array([x0, z0, 0.5 * z0, z0])
+        self.u0 = gp.tie_break()
         G = [gp.G]
         self.bounded = bounded
         if bounded:
@@ -147,14 +144,11 @@ class _Family:
         f = np.zeros((p.shape[0], N_U)) - 2.0 * self.reg * self.u0
         for w, a, col in self.quad:
             f += 2.0 * w * c[:, col : col + 1] * a
-        h = gp.h0 + c @ gp.Hc.T + p @ gp.P.T
-        if gp.floor_row is not None:
-            h[:, gp.floor_row] -= math.log(floor if floor is not None else 1e-300)
+        h, e = gp.rhs(p, c, floor)
         if self.bounded:
             assert eps is not None
             cb = self.constant(c, 1 - self.primary)
             h = np.hstack([h, (eps - cb)[:, None], (eps + cb)[:, None]])
-        e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
         batch = self.qp.solve(f, h, e)
         u = batch.y
         J = np.zeros(p.shape[0])

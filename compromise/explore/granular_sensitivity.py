@@ -73,15 +73,9 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
         pair_of.append(np.full(T.size, k))
     p, c = np.vstack(P_rows), np.vstack(C_rows)
     T_all, pair = np.concatenate(T_rows), np.concatenate(pair_of)
-    h = gp.h0 + c @ gp.Hc.T + p @ gp.P.T
-    if gp.floor_row is not None:
-        h[:, gp.floor_row] -= math.log(floor if floor is not None else 1e-300)
-    e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
+    h, e = gp.rhs(p, c, floor)
     cA = c[:, gp.sel] if gp.sel.size else np.zeros((c.shape[0], 0))
-    m_ = case.model
-    x0 = math.log(m_.horizontal_ratio[1])
-    z0 = x0 + math.log(m_.distortion[0])
-    u0 = np.array([x0, z0, 0.5 * z0, z0])
+    u0 = gp.tie_break()
     all_f = np.vstack([np.ones((1, K)), factors])  # row 0: the case's own weights
     n_c = len(pairs)
     S_all = all_f.shape[0]

@@ -184,6 +184,25 @@ class GranularProblem:
             return None
         return a
 
+    def tie_break(self) -> np.ndarray:
+        """The point ``u0`` the tie-break leans toward: the largest, least distorted model,
+        Froude velocity, grains scaled as the depth."""
+        m = self.case.model
+        x0 = math.log(m.horizontal_ratio[1])
+        z0 = x0 + math.log(m.distortion[0])
+        return np.array([x0, z0, 0.5 * z0, z0])
+
+    def rhs(
+        self, p: np.ndarray, c: np.ndarray, floor: float | None
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Right-hand sides ``h`` (N, rows) of the inequality rows and ``e`` (N, exact rows) of
+        the equality rows for states ``p``, constants ``c`` and the critical Shields value
+        ``floor`` of the moving-bed row."""
+        h = self.h0 + c @ self.Hc.T + p @ self.P.T
+        if self.floor_row is not None:
+            h[:, self.floor_row] -= math.log(floor if floor is not None else 1e-300)
+        return h, self.e0 + c @ self.Ec.T + p @ self.Q.T
+
     def constants(self, p: np.ndarray, rho_s: float) -> np.ndarray:
         """Every group's ``ln(model / prototype)`` at ``u = 0`` for states ``p`` (N, 6) [N, g].
 
@@ -390,13 +409,9 @@ class GrainEngine:
 
     def __init__(self, gp: GranularProblem, extra_E: np.ndarray | None = None) -> None:
         self.gp = gp
-        m = gp.case.model
         H = 2.0 * (gp.A.T * gp.W) @ gp.A
         self.eps = REGULARISATION * max(1.0, float(np.trace(H)) / N_U)
-        x0 = math.log(m.horizontal_ratio[1])
-        z0 = x0 + math.log(m.distortion[0])
-        # tie-break: the largest, least distorted model, Froude velocity, grains scaled as depth
-        self.u0 = np.array([x0, z0, 0.5 * z0, z0])
+        self.u0 = gp.tie_break()
         self.extra = np.zeros((0, N_U)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([gp.E, self.extra])
         self.qp = small_qp(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
@@ -414,12 +429,9 @@ class GrainEngine:
         gp = self.gp
         cA = c[:, gp.sel] if gp.sel.size else np.zeros((c.shape[0], 0))
         f = 2.0 * (cA * gp.W) @ gp.A - 2.0 * self.eps * self.u0
-        h = gp.h0 + c @ gp.Hc.T + p @ gp.P.T
-        if gp.floor_row is not None:
-            h[:, gp.floor_row] -= math.log(floor if floor is not None else 1e-300)
+        h, e = gp.rhs(p, c, floor)
         if h_shift is not None:
             h = h + h_shift
-        e = gp.e0 + c @ gp.Ec.T + p @ gp.Q.T
         if self.extra.shape[0]:
             shape = (p.shape[0], self.extra.shape[0])
             ee = np.zeros(shape) if extra_e is None else extra_e

@@ -23,13 +23,12 @@ import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.explore.sensitivity_result import (
-    Candidate,
     Sensitivity,
     VariableRange,
+    assemble,
+    draw_factors,
     ranges_of,
-    tied_best,
-    weights_note,
-    winners_of,
+    tally,
 )
 from compromise.solving.granular import N_U, GranularProblem
 from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
@@ -48,8 +47,7 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
     assert sed is not None
     gp = GranularProblem(case)
     K = gp.W.size
-    rng = np.random.default_rng(seed)
-    factors = np.exp(rng.uniform(-math.log(spread), math.log(spread), size=(samples, K)))
+    factors = draw_factors(spread, samples, seed, K)
     sol = find_optimum(case, alternatives=False)
     floor = (
         sol.sediment.critical_shields[1]
@@ -95,24 +93,8 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
             mine = np.flatnonzero(pair == k)
             j = mine[int(np.argmin(obj[mine]))]
             J[s, k], best_u[s, k], best_T[s, k] = obj[j], batch.y[j], T_all[j]
-    winners = winners_of(J)
-    best = tied_best(J)
-    alone = best.sum(axis=1) == 1
-    counts = best[1:][alone[1:]].sum(axis=0)
-    ties = best[1:][~alone[1:]].sum(axis=0)
-    cands = tuple(
-        Candidate(
-            pairs[k][0],
-            None,
-            labels[k],
-            int(counts[k]),
-            float(counts[k] / samples),
-            float(J[0, k]),
-            int(ties[k]),
-            float(ties[k] / samples),
-        )
-        for k in range(n_c)
-    )
+    tallied = tally(J, [f for f, _ in pairs], [None] * n_c, labels, samples)
+    winners = tallied[1]
     # the unrestricted optimum of each sample: the winner's design (the first of tied ones)
     y = np.full((S_all, 3), np.nan)
     TP = np.full((S_all, 2), np.nan)
@@ -135,23 +117,6 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
         VariableRange("grain_size", "mm", float(grain[0]), *(float(x) for x in q)),
     )
     optima = np.column_stack([optima, np.where(ok[1:], grain[1:], np.nan)])
-    shares = {f: float(np.mean(fluid_idx[1:] == i)) for i, f in enumerate(case.model.fluids)}
-    note = weights_note(gp.objective_groups)
-    return Sensitivity(
-        case,
-        float(spread),
-        int(samples),
-        int(seed),
-        gp.objective_groups,
-        cands,
-        int(winners[0]),
-        ranges,
-        shares,
-        factors,
-        winners[1:],
-        optima,
-        tuple(int(i) for i in np.flatnonzero(best[0])),
-        int(np.sum(best[1:].sum(axis=1) > 1)),
-        note,
-        best[1:],
+    return assemble(
+        case, spread, seed, gp.objective_groups, factors, tallied, ranges, optima, fluid_idx
     )

@@ -40,7 +40,10 @@ from compromise.explore.sensitivity_result import (  # noqa: F401  (re-exported)
     Candidate,
     Sensitivity,
     VariableRange,
+    assemble,
+    draw_factors,
     ranges_of,
+    tally,
     tied_best,
     weights_note,
     winners_of,
@@ -284,8 +287,7 @@ def weight_sensitivity(
             key=f"groups.{problem.nonlinear_groups[0]}",
         )
     K = problem.A.shape[0]
-    rng = np.random.default_rng(seed)
-    factors = np.exp(rng.uniform(-math.log(spread), math.log(spread), size=(samples, K)))
+    factors = draw_factors(spread, samples, seed, K)
     spaces = [StateSpace(FluidStates(case, f, problem.used_properties)) for f in case.model.fluids]
     ratios = list(case.model.preferred_ratios) or [None]
     free = WeightedQP(problem)
@@ -300,46 +302,17 @@ def weight_sensitivity(
         opt_fluid.append(fl)
     J = np.vstack(wins_obj)  # (1 + samples, candidates)
     J = _refine(free, fixed, problem.W * all_f, J, spaces, ratios)
-    winners = winners_of(J)
-    best = tied_best(J)  # (1 + samples, candidates): tied for best
-    alone = best.sum(axis=1) == 1
-    y, TP, fl = np.vstack(opt_y), np.vstack(opt_T), np.concatenate(opt_fluid)
-    labels = _labels(case, ratios)
-    n_c = J.shape[1]
-    counts = best[1:][alone[1:]].sum(axis=0)
-    ties = best[1:][~alone[1:]].sum(axis=0)
-    cands = tuple(
-        Candidate(
-            case.model.fluids[c // len(ratios)],
-            ratios[c % len(ratios)],
-            labels[c],
-            int(counts[c]),
-            float(counts[c] / samples),
-            float(J[0, c]),
-            int(ties[c]),
-            float(ties[c] / samples),
-        )
-        for c in range(n_c)
+    tallied = tally(
+        J,
+        [f for f in case.model.fluids for _ in ratios],
+        ratios * len(case.model.fluids),
+        _labels(case, ratios),
+        samples,
     )
+    y, TP, fl = np.vstack(opt_y), np.vstack(opt_T), np.concatenate(opt_fluid)
     ranges, optima = ranges_of(y, TP, fl, any(sp.variable_pressure for sp in spaces))
-    shares = {f: float(np.mean(fl[1:] == i)) for i, f in enumerate(case.model.fluids)}
-    return Sensitivity(
-        case,
-        float(spread),
-        int(samples),
-        int(seed),
-        problem.objective_groups,
-        cands,
-        int(winners[0]),
-        ranges,
-        shares,
-        factors,
-        winners[1:],
-        optima,
-        tuple(int(i) for i in np.flatnonzero(best[0])),
-        int(np.sum(best[1:].sum(axis=1) > 1)),
-        weights_note(problem.objective_groups),
-        best[1:],
+    return assemble(
+        case, spread, seed, problem.objective_groups, factors, tallied, ranges, optima, fl
     )
 
 

@@ -231,3 +231,72 @@ def ranges_of(
         )
     optima = np.column_stack([vals[n] for n, _ in names])[1:]
     return tuple(out), np.where(ok[1:, None], optima, np.nan)
+
+
+def draw_factors(spread: float, samples: int, seed: int, groups: int) -> np.ndarray:
+    """(samples, groups) weight factors, log-uniform in ``[1/spread, spread]`` (PCG64, seeded)."""
+    rng = np.random.default_rng(seed)
+    return np.exp(rng.uniform(-math.log(spread), math.log(spread), size=(samples, groups)))
+
+
+def tally(
+    J: np.ndarray, fluids: list[str], ratios: list[float | None], labels: list[str], samples: int
+) -> tuple[tuple[Candidate, ...], np.ndarray, np.ndarray]:
+    """The candidates' wins and ties from the objectives ``J`` (1 + samples, candidates; row 0
+    the case's own weights): the candidates, the winner of every row and the tied-best mask.
+    Candidate ``c`` is fluid ``fluids[c]`` at ratio ``ratios[c]``."""
+    winners = winners_of(J)
+    best = tied_best(J)
+    alone = best.sum(axis=1) == 1
+    counts = best[1:][alone[1:]].sum(axis=0)
+    ties = best[1:][~alone[1:]].sum(axis=0)
+    cands = tuple(
+        Candidate(
+            fluids[c],
+            ratios[c],
+            labels[c],
+            int(counts[c]),
+            float(counts[c] / samples),
+            float(J[0, c]),
+            int(ties[c]),
+            float(ties[c] / samples),
+        )
+        for c in range(J.shape[1])
+    )
+    return cands, winners, best
+
+
+def assemble(
+    case: Case,
+    spread: float,
+    seed: int,
+    groups: tuple[str, ...],
+    factors: np.ndarray,
+    tallied: tuple[tuple[Candidate, ...], np.ndarray, np.ndarray],
+    ranges: tuple[VariableRange, ...],
+    optima: np.ndarray,
+    fluid_index: np.ndarray,
+) -> Sensitivity:
+    """The :class:`Sensitivity` of a run: ``tallied`` from :func:`tally`; ``fluid_index``
+    (1 + samples,) the fluid of each row's unrestricted optimum (-1: none)."""
+    cands, winners, best = tallied
+    samples = factors.shape[0]
+    shares = {f: float(np.mean(fluid_index[1:] == i)) for i, f in enumerate(case.model.fluids)}
+    return Sensitivity(
+        case,
+        float(spread),
+        int(samples),
+        int(seed),
+        groups,
+        cands,
+        int(winners[0]),
+        ranges,
+        shares,
+        factors,
+        winners[1:],
+        optima,
+        tuple(int(i) for i in np.flatnonzero(best[0])),
+        int(np.sum(best[1:].sum(axis=1) > 1)),
+        weights_note(groups),
+        best[1:],
+    )

@@ -183,9 +183,10 @@ def default_axes(case: Case) -> tuple[str, str]:
     if case.sediment is not None:
         from compromise.solving.granular import GranularProblem
 
-        gp = GranularProblem(case)
-        tied = gp.E.size and bool(np.any(np.abs(gp.E[:, -1]) > 0.0))
-        if tied and case.model.temperature[1] > case.model.temperature[0]:
+        if (
+            GranularProblem(case).grain_ties()
+            and case.model.temperature[1] > case.model.temperature[0]
+        ):
             return "horizontal_ratio", "temperature"
         return "horizontal_ratio", "grain_size"
     if case.model.distortion[1] > case.model.distortion[0]:

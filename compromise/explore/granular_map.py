@@ -78,7 +78,7 @@ def granular_map(
     gp = GranularProblem(case)
     ratio_axis = next(a for a in axes if a != inner)
     if inner == "grain_size":
-        tied = [n for n, row in zip(gp.exact, gp.E, strict=True) if abs(row[-1]) > 0.0]
+        tied = gp.grain_ties()
         if tied:
             raise CaseError(
                 f"'{tied[0]}' is kept exactly and ties the model grain size to the ratios, so "

@@ -192,6 +192,11 @@ class GranularProblem:
         z0 = x0 + math.log(m.distortion[0])
         return np.array([x0, z0, 0.5 * z0, z0])
 
+    def grain_ties(self) -> tuple[str, ...]:
+        """The rows kept exactly that involve the grain size (a group such as the stability
+        number, or a fixed grain-size range): with them the grain follows from the ratios."""
+        return tuple(n for n, row in zip(self.exact, self.E, strict=True) if row[-1] != 0.0)
+
     def rhs(
         self, p: np.ndarray, c: np.ndarray, floor: float | None
     ) -> tuple[np.ndarray, np.ndarray]:

@@ -367,7 +367,7 @@ def test_granular_front_ends_at_the_optimum_and_no_sampled_design_dominates_it()
     # the front's least-total end is the solver's answer (same fixed point of the moving-bed
     # floor); a brute force over random designs of every material at the front's temperature
     # finds no feasible design that beats a front point on both axes
-    from compromise.explore.granular_front import _Family, _States
+    from compromise.explore.granular_front import StateGrid, _Family
     from compromise.explore.tradeoffs import trace_front
     from compromise.solving.granular import GranularProblem
 
@@ -380,7 +380,7 @@ def test_granular_front_ends_at_the_optimum_and_no_sampled_design_dominates_it()
     assert np.all(np.diff(v[:, 0]) >= -1e-12) and np.all(np.diff(v[:, 1]) <= 1e-12)
     assert all(pt.design.material in case.sediment.materials for pt in front.points)
     gp = GranularProblem(case)
-    st = _States(case, gp, 24)
+    st = StateGrid(case, gp, 24)
     fam = _Family(gp, list(front.axes), 0, False)
     floor = sol.sediment.critical_shields[1]
     rng = np.random.default_rng(7)

@@ -41,6 +41,7 @@ from compromise.solving.design import Design
 from compromise.solving.granular import N_U, GranularProblem
 from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
 from compromise.solving.qp import SmallQP
+from compromise.solving.result import Solution
 
 SECONDARY = 1e-7  # relative weight of the other axis in the objective (as in tradeoffs)
 #: A group mismatch |ln(model/prototype)| below this is nil: the tie-break toward the largest
@@ -172,8 +173,16 @@ class _Family:
         return np.column_stack(cols)
 
 
-class _States:
-    """Every (fluid, material, temperature) of the grid, with its constants."""
+def held_floor(sol: Solution) -> float | None:
+    """The moving-bed floor an exploration holds: the critical Shields value of the grain of
+    the solver's answer (None without a moving bed or an answer)."""
+    sed = sol.sediment
+    return sed.critical_shields[1] if sed is not None and sed.critical_shields else None
+
+
+class StateGrid:
+    """Every (fluid, material) of a ``[sediment]`` case, with its temperature grid; the
+    property log-ratios and the groups' constants at any temperatures (:meth:`at`)."""
 
     def __init__(self, case: Case, gp: GranularProblem, n_temperatures: int) -> None:
         from compromise.physics.materials import get_material
@@ -196,7 +205,7 @@ class _States:
 
 
 def _best(
-    fam: _Family, st: _States, floor: float | None, eps: np.ndarray | None
+    fam: _Family, st: StateGrid, floor: float | None, eps: np.ndarray | None
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """For every epsilon (or once, without), the best item over states: objective, item
     index, temperature and ``u``; a grid, then one zoom round around each best temperature."""
@@ -253,12 +262,8 @@ def trace_granular_front(
     primary = 0 if ax[0].kind == "total" else (1 if ax[1].kind == "total" else 0)
     other = 1 - primary
     sol = find_optimum(case, alternatives=False)
-    floor = (
-        sol.sediment.critical_shields[1]
-        if sol.sediment is not None and sol.sediment.critical_shields is not None
-        else None
-    )
-    st = _States(case, gp, n_temperatures)
+    floor = held_floor(sol)
+    st = StateGrid(case, gp, n_temperatures)
 
     def design(k: int, T: float, u: np.ndarray) -> Design:
         fluid, material, P, _, _ = st.items[k]

@@ -28,6 +28,7 @@ import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
+from compromise.explore.granular_front import held_floor
 from compromise.explore.map_parts import Boundary, row_label, zoom_ranges
 from compromise.solving.granular import GrainEngine, GranularProblem
 from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
@@ -70,11 +71,7 @@ def granular_map(
     if fluid not in case.model.fluids:
         raise CaseError(f"'{fluid}' is not one of model.fluids", file=case.path, key="--fluid")
     material = best.material if best and best.material else sed.materials[0]
-    floor = (
-        sol.sediment.critical_shields[1]
-        if sol.sediment is not None and sol.sediment.critical_shields is not None
-        else None
-    )
+    floor = held_floor(sol)
     gp = GranularProblem(case)
     ratio_axis = next(a for a in axes if a != inner)
     if inner == "grain_size":

@@ -22,6 +22,7 @@ import math
 import numpy as np
 
 from compromise.casefile.model import Case
+from compromise.explore.granular_front import StateGrid, held_floor
 from compromise.explore.sensitivity_result import (
     Sensitivity,
     VariableRange,
@@ -31,7 +32,7 @@ from compromise.explore.sensitivity_result import (
     tally,
 )
 from compromise.solving.granular import N_U, GranularProblem
-from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
+from compromise.solving.grid import REGULARISATION
 from compromise.solving.qp import SmallQP
 
 N_GRID = 49  # temperatures per fluid (0.25 K over a 12 K range)
@@ -40,7 +41,6 @@ N_GRID = 49  # temperatures per fluid (0.25 K over a 12 K range)
 def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> Sensitivity:
     """The weight sensitivity of a ``[sediment]`` case (see the module docstring); the
     arguments are those of :func:`compromise.explore.sensitivity.weight_sensitivity`."""
-    from compromise.physics.materials import get_material
     from compromise.solving.optimum import find_optimum
 
     sed = case.sediment
@@ -49,28 +49,17 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
     K = gp.W.size
     factors = draw_factors(spread, samples, seed, K)
     sol = find_optimum(case, alternatives=False)
-    floor = (
-        sol.sediment.critical_shields[1]
-        if sol.sediment is not None and sol.sediment.critical_shields is not None
-        else None
-    )
-    pairs = [(f, m) for f in case.model.fluids for m in sed.materials]
+    floor = held_floor(sol)
+    pairs = [(f, m) for f in case.model.fluids for m in sed.materials]  # StateGrid's order
     several = len(case.model.fluids) > 1
     labels = [f"{m} in {f}" if several else m for f, m in pairs]
     # every (pair, temperature): property log-ratios and the groups' constants, once
-    P_rows, C_rows, T_rows, pair_of, press = [], [], [], [], {}
-    for k, (f, m) in enumerate(pairs):
-        fs = FluidStates(case, f, gp.used)
-        P = float(fs.pressures()[0])
-        press[f] = P
-        T = grid_points(*fs.t_range, N_GRID)
-        p = fs.p(T, P)
-        P_rows.append(p)
-        C_rows.append(gp.constants(p, get_material(m).density))
-        T_rows.append(T)
-        pair_of.append(np.full(T.size, k))
-    p, c = np.vstack(P_rows), np.vstack(C_rows)
-    T_all, pair = np.concatenate(T_rows), np.concatenate(pair_of)
+    st = StateGrid(case, gp, N_GRID)
+    rows = [st.at(k, T) for k, T in enumerate(st.grids)]
+    p, c = np.vstack([r[0] for r in rows]), np.vstack([r[1] for r in rows])
+    T_all = np.concatenate(st.grids)
+    pair = np.concatenate([np.full(T.size, k) for k, T in enumerate(st.grids)])
+    press = {it[0]: it[2] for it in st.items}
     h, e = gp.rhs(p, c, floor)
     cA = c[:, gp.sel] if gp.sel.size else np.zeros((c.shape[0], 0))
     u0 = gp.tie_break()

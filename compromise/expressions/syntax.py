@@ -21,9 +21,10 @@ import ast
 import difflib
 import math
 import re
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
 from fractions import Fraction
+from typing import Any
 
 import numpy as np
 
@@ -413,29 +414,58 @@ def evaluate(expr: Expr, env: Mapping[str, float | np.ndarray]) -> float | np.nd
     0.30724
     """
 
-    def walk(node: Expr) -> np.ndarray:
-        if isinstance(node, Num):
-            return np.float64(node.value)
-        if isinstance(node, Name):
-            if node.id in CONSTANTS:
-                return np.float64(CONSTANTS[node.id])
-            if node.id not in env:
-                raise _unknown_name(node.id, list(env), to_text(expr))
-            return np.asarray(env[node.id], dtype=float)
-        if isinstance(node, Unary):
-            value = walk(node.operand)
-            return np.negative(value) if node.op == "-" else value
-        if isinstance(node, Binary):
-            return _NP_BINARY[node.op](walk(node.left), walk(node.right))
-        if isinstance(node, Call):
-            return _NP_FUNCS[node.func](walk(node.arg))
-        raise ExpressionError(f"not an expression node: {node!r}")
-
+    kept = _COMPILED.get(id(expr))
+    if kept is None or kept[0] is not expr:
+        kept = (expr, _compile(expr, expr))
+        if len(_COMPILED) >= 4096:
+            _COMPILED.clear()
+        _COMPILED[id(expr)] = kept
+    run = kept[1]
     with np.errstate(all="ignore"):
-        result = walk(expr)
+        result = run(env)
     if np.ndim(result) == 0:
         return float(result)
     return np.asarray(result)
+
+
+#: compiled expressions (:func:`_compile`) by the expression's id, beside the expression itself
+#: (held, so that its id is not reused; a frozen tree's hash would cost a walk per call)
+_COMPILED: dict[int, tuple[Expr, Callable[[Mapping[str, Any]], Any]]] = {}
+
+
+def _compile(node: Expr, whole: Expr) -> Callable[[Mapping[str, Any]], Any]:
+    """A function of the environment that applies the node's numpy operations in the order
+    a walk of the tree would, so its results are the walk's to the last bit; compiled once
+    per expression, it skips the tree's type tests on every evaluation."""
+    if isinstance(node, Num):
+        value = np.float64(node.value)
+        return lambda env: value
+    if isinstance(node, Name):
+        ident = node.id
+        if ident in CONSTANTS:
+            constant = np.float64(CONSTANTS[ident])
+            return lambda env: constant
+
+        def name(env: Mapping[str, Any]) -> Any:
+            if ident not in env:
+                raise _unknown_name(ident, list(env), to_text(whole))
+            return np.asarray(env[ident], dtype=float)
+
+        return name
+    if isinstance(node, Unary):
+        operand = _compile(node.operand, whole)
+        if node.op == "-":
+            return lambda env: np.negative(operand(env))
+        return operand
+    if isinstance(node, Binary):
+        op = _NP_BINARY[node.op]
+        left, right = _compile(node.left, whole), _compile(node.right, whole)
+        return lambda env: op(left(env), right(env))
+    if isinstance(node, Call):
+        fn = _NP_FUNCS[node.func]
+        arg = _compile(node.arg, whole)
+        return lambda env: fn(arg(env))
+    raise ExpressionError(f"not an expression node: {node!r}")
 
 
 def _constant(expr: Expr) -> float | None:

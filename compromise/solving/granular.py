@@ -25,6 +25,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from collections.abc import Generator
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -130,9 +131,13 @@ class GranularProblem:
         p: np.ndarray,
         rho_s: float | np.ndarray,
         names: frozenset[str] | None = None,
+        *,
+        at_zero: bool = False,
     ) -> dict:
         """Model values of the quantities and properties at log-ratios ``u`` and ``p`` (any
-        leading shape broadcast); only those in ``names`` (and what they need) when given."""
+        leading shape broadcast); only those in ``names`` (and what they need) when given.
+        ``at_zero`` says that ``u`` is zero: the ratios' product, a signed zero that the sum
+        and the exponential absorb, is skipped (the values are the same to the last bit)."""
         sed = self.sed
         env: dict[str, Any] = {}
         y = u[..., :N_DECISION]
@@ -156,7 +161,12 @@ class GranularProblem:
                 )
             else:
                 s = q.scaling
-                env[name] = self.proto_env[name] * np.exp(y @ s[:N_DECISION] + p @ s[N_DECISION:])
+                if at_zero:
+                    env[name] = self.proto_env[name] * np.exp(p @ s[N_DECISION:])
+                else:
+                    env[name] = self.proto_env[name] * np.exp(
+                        y @ s[:N_DECISION] + p @ s[N_DECISION:]
+                    )
         return env
 
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
@@ -232,7 +242,7 @@ class GranularProblem:
             names = self._linear_names = frozenset().union(
                 *(ex.names(self.exprs[n]) for n in linear)
             )
-        env = self.model_env(u, p, rho_s, names) if linear else {}
+        env = self.model_env(u, p, rho_s, names, at_zero=True) if linear else {}
         with np.errstate(divide="ignore", invalid="ignore"):
             for n in self.groups:
                 if self.normals[n] is None:
@@ -421,16 +431,16 @@ class GrainEngine:
         E = np.vstack([gp.E, self.extra])
         self.qp = small_qp(H + 2.0 * self.eps * np.eye(N_U), gp.G, E)
 
-    def solve(
+    def prepare(
         self,
         p: np.ndarray,
         c: np.ndarray,
         floor: float | None,
         h_shift: np.ndarray | None = None,
         extra_e: np.ndarray | None = None,
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """Optimal ``u`` (N, 4) and the weighted mismatch (N,) for states ``p``, constants
-        ``c`` and the critical Shields value ``floor``."""
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+        """The QP's linear terms ``(f, h, e)`` for states ``p``, constants ``c`` and the
+        critical Shields value ``floor``, and the objective groups' constants ``cA``."""
         gp = self.gp
         cA = c[:, gp.sel] if gp.sel.size else np.zeros((c.shape[0], 0))
         f = 2.0 * (cA * gp.W) @ gp.A - 2.0 * self.eps * self.u0
@@ -441,11 +451,93 @@ class GrainEngine:
             shape = (p.shape[0], self.extra.shape[0])
             ee = np.zeros(shape) if extra_e is None else extra_e
             e = np.hstack([e, ee if np.shape(ee) == shape else np.broadcast_to(ee, shape)])
-        batch = self.qp.solve(f, h, e)
-        u = batch.y
+        return f, h, e, cA
+
+    def finish(self, u: np.ndarray, feasible: np.ndarray, cA: np.ndarray) -> np.ndarray:
+        """The weighted mismatch (N,) of the QP's answers ``u`` (inf where infeasible)."""
+        gp = self.gp
         r = u @ gp.A.T + cA
         obj = np.sum(gp.W * r**2, axis=1)
-        return u, np.where(batch.feasible, obj, np.inf)
+        return np.where(feasible, obj, np.inf)
+
+    def solve(
+        self,
+        p: np.ndarray,
+        c: np.ndarray,
+        floor: float | None,
+        h_shift: np.ndarray | None = None,
+        extra_e: np.ndarray | None = None,
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Optimal ``u`` (N, 4) and the weighted mismatch (N,) for states ``p``, constants
+        ``c`` and the critical Shields value ``floor``."""
+        f, h, e, cA = self.prepare(p, c, floor, h_shift, extra_e)
+        batch = self.qp.solve(f, h, e)
+        return batch.y, self.finish(batch.y, batch.feasible, cA)
+
+
+#: a request of a search to the engine: ``(p, c, floor, h_shift, extra_e)`` (see
+#: :meth:`GrainEngine.solve`); the search receives ``(u, objective)`` back
+Request = tuple[Any, ...]
+#: the most subproblems stacked in one QP call by :func:`lockstep`. The batched products
+#: compute every column alike for any batch of 2 to 192 columns on the reference machine's
+#: OpenBLAS (Haswell kernels); one column goes through another routine (gemv). So requests of
+#: one row run alone, and stacks stay within this width: every answer is the one a search run
+#: alone gives, to the last bit (``tests/test_granular_lockstep.py``).
+LOCKSTEP_COLUMNS = 192
+
+
+def lockstep(engine: GrainEngine, jobs: list[Generator[Request, Any, Any]]) -> list[Any]:
+    """Run searches written as generators (each yields :data:`Request` and receives
+    ``(u, objective)``) side by side: each round, the requests of all of them share batched
+    QP calls. Returns each generator's return value, in order."""
+    results: list[Any] = [None] * len(jobs)
+    pending: dict[int, Request] = {}
+    for i, job in enumerate(jobs):
+        try:
+            pending[i] = next(job)
+        except StopIteration as stop:
+            results[i] = stop.value
+    while pending:
+        order = sorted(pending)
+        stacks: list[list[int]] = []
+        current: list[int] = []
+        width = 0
+        for i in order:
+            n = int(np.shape(pending[i][0])[0])
+            if n < 2 or n > LOCKSTEP_COLUMNS:
+                stacks.append([i])
+                continue
+            if current and width + n > LOCKSTEP_COLUMNS:
+                stacks.append(current)
+                current, width = [], 0
+            current.append(i)
+            width += n
+        if current:
+            stacks.append(current)
+        answers: dict[int, tuple[np.ndarray, np.ndarray]] = {}
+        for stack in stacks:
+            if len(stack) == 1:
+                answers[stack[0]] = engine.solve(*pending[stack[0]])
+                continue
+            parts = [engine.prepare(*pending[i]) for i in stack]
+            batch = engine.qp.solve(
+                np.vstack([q[0] for q in parts]),
+                np.vstack([q[1] for q in parts]),
+                np.vstack([q[2] for q in parts]),
+            )
+            a = 0
+            for i, (_, _, _, cA) in zip(stack, parts, strict=True):
+                b = a + cA.shape[0]
+                u = batch.y[a:b].copy()
+                answers[i] = (u, engine.finish(u, batch.feasible[a:b], cA))
+                a = b
+        for i in order:
+            try:
+                pending[i] = jobs[i].send(answers[i])
+            except StopIteration as stop:
+                results[i] = stop.value
+                del pending[i]
+    return results
 
 
 def critical_shields(gp: GranularProblem, u: np.ndarray, p: np.ndarray, rho_s: float) -> float:
@@ -462,7 +554,7 @@ def critical_shields(gp: GranularProblem, u: np.ndarray, p: np.ndarray, rho_s: f
     return float(critical_shields_soulsby_whitehouse(dimensionless_grain_size(d, R, env["nu"])))
 
 
-def _search(
+def _search_steps(
     engine: GrainEngine,
     fs: FluidStates,
     rho_s: float,
@@ -470,17 +562,18 @@ def _search(
     n_temperatures: int,
     h_shift: np.ndarray | None,
     extra_e: np.ndarray | None,
-) -> tuple[float, float, np.ndarray] | None:
-    """One (fluid, material): temperature grid, zoom, re-solve at the source models.
-    Returns ``(objective, temperature, u)``."""
+) -> Generator[Request, Any, tuple[float, float, np.ndarray] | None]:
+    """One (fluid, material): temperature grid, zoom, re-solve at the source models, as
+    a generator of engine requests (see :func:`lockstep`). Returns ``(objective,
+    temperature, u)``."""
     gp = engine.gp
     P = float(fs.pressures()[0])
 
-    def run(p: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-        return engine.solve(p, gp.constants(p, rho_s), floor, h_shift, extra_e)
+    def ask(p: np.ndarray) -> Request:
+        return (p, gp.constants(p, rho_s), floor, h_shift, extra_e)
 
     grid = grid_points(*fs.t_range, n_temperatures)
-    _, o = run(fs.p(grid, P))
+    _, o = yield ask(fs.p(grid, P))
     k = int(np.argmin(o))
     if not np.isfinite(o[k]):
         return None
@@ -489,7 +582,7 @@ def _search(
     lo, hi = fs.t_range
     for _ in range(ZOOM_ROUNDS if half > 0 else 0):
         Tz = linspace(max(lo, best[1] - half), min(hi, best[1] + half), N_ZOOM)
-        _, o = run(fs.p(Tz, P))
+        _, o = yield ask(fs.p(Tz, P))
         k = int(np.argmin(o))
         if o[k] < best[0]:
             best = [float(o[k]), float(Tz[k])]
@@ -502,7 +595,7 @@ def _search(
         )
         if not cands:
             break
-        u, o = run(np.array([fs.exact_p(c, P) for c in cands]))
+        u, o = yield ask(np.array([fs.exact_p(c, P) for c in cands]))
         if np.isfinite(o).any():
             j = int(np.argmin(o))
             return float(o[j]), cands[j], u[j]
@@ -521,13 +614,27 @@ def best_grain_state(
 ) -> GrainState | None:
     """The best state of one fluid and one material; with a moving bed, the fixed point of
     the critical Shields floor (or the given ``floor``, held)."""
+    job = _best_steps(engine, fs, material, n_temperatures, h_shift, extra_e, floor)
+    return lockstep(engine, [job])[0]
+
+
+def _best_steps(
+    engine: GrainEngine,
+    fs: FluidStates,
+    material: str,
+    n_temperatures: int,
+    h_shift: np.ndarray | None,
+    extra_e: np.ndarray | None,
+    floor: float | None,
+) -> Generator[Request, Any, GrainState | None]:
+    """:func:`best_grain_state` as a generator of engine requests (see :func:`lockstep`)."""
     from compromise.physics.materials import COHESION_LIMIT, get_material
 
     gp = engine.gp
     rho_s = get_material(material).density
     P = float(fs.pressures()[0])
     if gp.floor_row is None:
-        found = _search(engine, fs, rho_s, None, n_temperatures, h_shift, extra_e)
+        found = yield from _search_steps(engine, fs, rho_s, None, n_temperatures, h_shift, extra_e)
         if found is None:
             return None
         return GrainState(fs.name, material, found[1], P, found[2], found[0])
@@ -543,7 +650,7 @@ def best_grain_state(
     prev: tuple[float, float] | None = None  # (floor, residual)
     top = floor
     for k in range(1, FLOOR_ROUNDS + 1):
-        found = _search(engine, fs, rho_s, floor, n_temperatures, h_shift, extra_e)
+        found = yield from _search_steps(engine, fs, rho_s, floor, n_temperatures, h_shift, extra_e)
         if found is None:
             return None
         obj, t, u = found
@@ -562,7 +669,7 @@ def best_grain_state(
         floor = step
         top = max(top, new, floor)
     # no fixed point: hold the largest critical value met (conservative) and say so
-    found = _search(engine, fs, rho_s, top, n_temperatures, h_shift, extra_e)
+    found = yield from _search_steps(engine, fs, rho_s, top, n_temperatures, h_shift, extra_e)
     if found is None:
         return None
     return GrainState(fs.name, material, found[1], P, found[2], found[0], top, -FLOOR_ROUNDS)
@@ -577,23 +684,32 @@ def all_grain_states(
     extra_e: np.ndarray | None = None,
     floors: dict[tuple[str, str], float] | None = None,
 ) -> dict[tuple[str, str], GrainState | None]:
-    """Every (fluid, material)'s best state, in the case's order."""
+    """Every (fluid, material)'s best state, in the case's order (their searches run side
+    by side, see :func:`lockstep`)."""
+    keys, jobs = grain_jobs(engine, case, n_temperatures, h_shift, extra_e, floors)
+    return dict(zip(keys, lockstep(engine, jobs), strict=True))
+
+
+def grain_jobs(
+    engine: GrainEngine,
+    case: Case,
+    n_temperatures: int = N_TEMPERATURES,
+    h_shift: np.ndarray | None = None,
+    extra_e: np.ndarray | None = None,
+    floors: dict[tuple[str, str], float] | None = None,
+) -> tuple[list[tuple[str, str]], list[Generator[Request, Any, GrainState | None]]]:
+    """The (fluid, material) keys of :func:`all_grain_states` and their searches, not yet
+    run (several sets of them can share one :func:`lockstep`)."""
     gp = engine.gp
-    out: dict[tuple[str, str], GrainState | None] = {}
+    keys: list[tuple[str, str]] = []
+    jobs: list[Generator[Request, Any, GrainState | None]] = []
     for f in case.model.fluids:
         fs = gp.states(f) if case is gp.case else FluidStates(case, f, gp.used)
         for mat in gp.sed.materials:
             floor = None if floors is None else floors.get((f, mat))
-            out[(f, mat)] = best_grain_state(
-                engine,
-                fs,
-                mat,
-                n_temperatures=n_temperatures,
-                h_shift=h_shift,
-                extra_e=extra_e,
-                floor=floor,
-            )
-    return out
+            keys.append((f, mat))
+            jobs.append(_best_steps(engine, fs, mat, n_temperatures, h_shift, extra_e, floor))
+    return keys, jobs
 
 
 def grain_for_ratios(

@@ -21,6 +21,8 @@ from compromise.solving.granular import (
     GrainState,
     GranularProblem,
     all_grain_states,
+    grain_jobs,
+    lockstep,
     polish_nonlinear,
 )
 from compromise.solving.grid import N_TEMPERATURES
@@ -315,18 +317,23 @@ def _binding_costs(
     sol, _ = nnls(np.vstack([M, ridge * np.eye(k)]), np.concatenate([-grad, np.zeros(k)]))
     lam = sol[: active.size]
     shift = math.log(1.0 + RELAXATION)
-    for i, li in zip(active, lam, strict=True):
-        row = gp.rows[i]
-        if best.objective >= NOISE:
+    # the re-solve with each binding row relaxed: all of them side by side (one lockstep)
+    resolved: dict[int, float] = {}
+    if best.objective >= NOISE:
+        sets = []
+        for i in active:
             hs = np.zeros(gp.G.shape[0])
             hs[i] = shift
-            found = all_grain_states(
-                engine, case, n_temperatures=n_temperatures, h_shift=hs, floors=floors
-            )
-            objs = [s.objective for s in found.values() if s is not None]
-            new = min(objs) if objs else best.objective
-        else:
-            new = best.objective
+            sets.append(grain_jobs(engine, case, n_temperatures, hs, None, floors))
+        found = lockstep(engine, [job for _, jobs in sets for job in jobs])
+        a = 0
+        for i, (keys, _) in zip(active, sets, strict=True):
+            objs = [s.objective for s in found[a : a + len(keys)] if s is not None]
+            resolved[int(i)] = min(objs) if objs else best.objective
+            a += len(keys)
+    for i, li in zip(active, lam, strict=True):
+        row = gp.rows[i]
+        new = resolved.get(int(i), best.objective)
         relaxed = (
             (best.critical_shields or math.nan) * math.exp(-shift)
             if row.key == "sediment.moving_bed"

@@ -144,10 +144,6 @@ class SmallQP:
         allmaps = np.concatenate(maps, axis=0)  # (s, n, r)
         self._maps = allmaps.reshape(len(subsets) * n, r)
         self._mults = np.concatenate(mults, axis=0)
-        # row values G y and E y as maps of the right-hand side too: feasibility costs one
-        # matrix product per batch
-        self._GY = (self.G @ allmaps).reshape(-1, r) if m else np.zeros((0, r))
-        self._EY = (self.E @ allmaps).reshape(-1, r) if self._check_eq else np.zeros((0, r))
 
     def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> QPBatch:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""
@@ -215,16 +211,29 @@ class SmallQP:
         rhs = np.hstack([-f, e, h]).T  # (r, N)
         Y = (self._maps @ rhs).reshape(ns, n, N)
         ok = np.ones((ns, N), dtype=bool)
+        if self.m or self._check_eq:
+            # the rows' values at every candidate's point, from the points themselves (n
+            # products a row, not r): they only decide feasibility, against a tolerance far
+            # above their rounding, and the points and values are the products' own
+            Yt = Y.transpose(1, 0, 2).reshape(n, ns * N)
         if self.m:
-            GY = (self._GY @ rhs).reshape(ns, self.m, N)
-            ht = h.T[None]
-            ok &= np.all(GY <= ht + FEASIBILITY_TOL * (1.0 + np.abs(ht)), axis=1)
+            GY = (self.G @ Yt).reshape(self.m, ns, N)
+            ht = h.T[:, None, :]
+            top = ht + FEASIBILITY_TOL * (1.0 + np.abs(ht))
+            for j in range(self.m):
+                ok &= GY[j] <= top[j]
         if self._check_eq:
-            EY = (self._EY @ rhs).reshape(ns, self.q, N)
-            et = e.T[None]
-            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=1)
-        val = np.einsum("sin,sin->sn", Y, 0.5 * np.matmul(self.H, Y) + f.T[None])
-        val = np.where(ok, val, np.inf)
+            EY = (self.E @ Yt).reshape(self.q, ns, N)
+            et = e.T[:, None, :]
+            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=0)
+        # the values only of candidates feasible somewhere (each candidate's products are its
+        # own: the same numbers as over all of them)
+        some = np.flatnonzero(ok.any(axis=1))
+        val = np.full((ns, N), np.inf)
+        if some.size:
+            Ys = Y[some]
+            vs = np.einsum("sin,sin->sn", Ys, 0.5 * np.matmul(self.H, Ys) + f.T[None])
+            val[some] = np.where(ok[some], vs, np.inf)
         best = np.argmin(val, axis=0)
         idx = np.arange(N)
         v = val[best, idx]

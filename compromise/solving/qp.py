@@ -32,6 +32,7 @@ import numpy as np
 FEASIBILITY_TOL = 1e-9  # [-] on log-ratios
 CHUNK = 20000  # subproblems per batch (bounds the memory of the enumeration)
 MAX_ENUMERATED_ROWS = 40  # distinct inequality normals up to which active sets are enumerated
+BLOCK_VALUES = 2**16  # row values (candidates x rows x columns) checked per block of columns
 
 
 @dataclass(frozen=True)
@@ -210,22 +211,40 @@ class SmallQP:
         N, ns, n = f.shape[0], len(self.subsets), self.n
         rhs = np.hstack([-f, e, h]).T  # (r, N)
         Y = (self._maps @ rhs).reshape(ns, n, N)
+        y = np.empty((N, n))
+        v = np.empty(N)
+        active = np.empty(N, dtype=int)
+        # the checks and values by blocks of columns whose row values stay in the cache; a
+        # block of one column would take another BLAS routine, so the last one never is
+        width = max(64, BLOCK_VALUES // max(1, ns * max(self.m, self.q)))
+        edges = [*range(0, N, width), N]
+        if len(edges) > 2 and edges[-1] - edges[-2] < 2:
+            edges.pop(-2)
+        ht, et = h.T, e.T
+        top = ht + FEASIBILITY_TOL * (1.0 + np.abs(ht))  # (m, N)
+        etol = FEASIBILITY_TOL * (1.0 + np.abs(et))  # (q, N)
+        for a, b in itertools.pairwise(edges):
+            y[a:b], v[a:b], active[a:b] = self._block(
+                Y[:, :, a:b], f[a:b], top[:, a:b], et[:, a:b], etol[:, a:b]
+            )
+        return y, v, active
+
+    def _block(
+        self, Y: np.ndarray, f: np.ndarray, top: np.ndarray, et: np.ndarray, etol: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The best feasible candidate of each column of one block: candidates' points ``Y``
+        (ns, n, N), linear terms ``f`` (N, n), row bounds with their tolerance ``top``
+        (m, N), equality right-hand sides ``et`` (q, N) and their tolerance ``etol``."""
+        ns, _, N = Y.shape
         ok = np.ones((ns, N), dtype=bool)
-        if self.m or self._check_eq:
-            # the rows' values at every candidate's point, from the points themselves (n
-            # products a row, not r): they only decide feasibility, against a tolerance far
-            # above their rounding, and the points and values are the products' own
-            Yt = Y.transpose(1, 0, 2).reshape(n, ns * N)
+        # the rows' values at every candidate's point, from the points themselves (n products
+        # a row, not r): they only decide feasibility, against a tolerance far above their
+        # rounding, and the points and values are the products' own
         if self.m:
-            GY = (self.G @ Yt).reshape(self.m, ns, N)
-            ht = h.T[:, None, :]
-            top = ht + FEASIBILITY_TOL * (1.0 + np.abs(ht))
-            for j in range(self.m):
-                ok &= GY[j] <= top[j]
+            ok &= np.all(np.matmul(self.G, Y) <= top[None], axis=1)
         if self._check_eq:
-            EY = (self.E @ Yt).reshape(self.q, ns, N)
-            et = e.T[:, None, :]
-            ok &= np.all(np.abs(EY - et) <= FEASIBILITY_TOL * (1.0 + np.abs(et)), axis=0)
+            EY = np.matmul(self.E, Y)
+            ok &= np.all(np.abs(EY - et[None]) <= etol[None], axis=1)
         # the values only of candidates feasible somewhere (each candidate's products are its
         # own: the same numbers as over all of them)
         some = np.flatnonzero(ok.any(axis=1))

@@ -16,12 +16,15 @@ With fewer than two weighted groups, a weight factor scales every candidate's mi
 cannot change which is best; the result says so (:attr:`Sensitivity.note`).
 
 A sample changes only the weights, so only the Hessian of the convex subproblems
-(:mod:`compromise.solving.problem`) changes; the candidate active sets do not. The KKT systems of
-every
-sample and active set are inverted in one batch, and every subproblem of a sample is then a
-matrix product, as in :mod:`compromise.solving.qp`. Temperature (and a gas's pressure) is searched
-by the
-grid and zoom of :func:`compromise.explore.envelope.lower_envelope`.
+(:mod:`compromise.solving.problem`) changes. Where the equality rows leave at most two of the
+three log-ratios free (a group kept exactly, a fixed preferred ratio, a fixed distortion: every
+bundled case), each subproblem is solved in closed form in the equalities' null space
+(:class:`~compromise.explore.reduced_qp.ReducedQP`). Otherwise the KKT systems of every sample
+and candidate active set are inverted in one batch, and every subproblem of a sample is then a
+matrix product (:class:`WeightedQP`), as in :mod:`compromise.solving.qp`. Both give the one
+optimum of a strictly convex QP; their objectives agree to rounding, and with a fixed seed the
+winners are the same sample by sample (``tests/test_reduced_qp.py``). Temperature (and a gas's
+pressure) is searched by the grid and zoom of :func:`compromise.explore.envelope.lower_envelope`.
 """
 
 from __future__ import annotations
@@ -34,6 +37,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.envelope import StateSpace, lower_envelope
+from compromise.explore.reduced_qp import ReducedQP
 from compromise.explore.sensitivity_result import (  # noqa: F401  (re-exported)
     TIE_ABS,
     VARIABLES,
@@ -53,7 +57,7 @@ from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import FEASIBILITY_TOL
 from compromise.solving.threads import one_blas_thread
 
-CHUNK = 250  # samples per batch
+CHUNK = 5000  # samples per batch
 N_TEMPERATURES = 12
 ZOOM_ROUNDS = 3
 REFINE_BAND = 1e-4  # [-] candidates this close to a sample's best (plus 1e-3 of it) are refined
@@ -226,6 +230,13 @@ class WeightedQP:
         return y, v
 
 
+def weighted_qp(problem: Problem, extra_E: np.ndarray | None = None) -> WeightedQP | ReducedQP:
+    """The subproblems' solver: in the equalities' null space when at most two variables are
+    free (:class:`~compromise.explore.reduced_qp.ReducedQP`), else the enumeration."""
+    reduced = ReducedQP(problem, extra_E)
+    return reduced if reduced.supported else WeightedQP(problem, extra_E)
+
+
 def _objective(Y: np.ndarray, H: np.ndarray, ft: np.ndarray) -> np.ndarray:
     """``1/2 y'Hy + f'y`` of every candidate point: Y (S, c, 3, R), H (S, 3, 3), ft (S, 3, R).
 
@@ -290,8 +301,8 @@ def weight_sensitivity(
     factors = draw_factors(spread, samples, seed, K)
     spaces = [StateSpace(FluidStates(case, f, problem.used_properties)) for f in case.model.fluids]
     ratios = list(case.model.preferred_ratios) or [None]
-    free = WeightedQP(problem)
-    fixed = WeightedQP(problem, np.array([[1.0, 0.0, 0.0]])) if ratios[0] is not None else None
+    free = weighted_qp(problem)
+    fixed = weighted_qp(problem, np.array([[1.0, 0.0, 0.0]])) if ratios[0] is not None else None
     all_f = np.vstack([np.ones((1, K)), factors])  # row 0: the nominal weights
     wins_obj, opt_y, opt_T, opt_fluid = [], [], [], []
     for a in range(0, all_f.shape[0], CHUNK):
@@ -323,8 +334,8 @@ def _labels(case: Case, ratios: list[float | None]) -> list[str]:
 
 
 def _refine(
-    free: WeightedQP,
-    fixed: WeightedQP | None,
+    free: WeightedQP | ReducedQP,
+    fixed: WeightedQP | ReducedQP | None,
     W: np.ndarray,
     J: np.ndarray,
     spaces: list[StateSpace],
@@ -353,8 +364,8 @@ def _blocks(items: np.ndarray, n: int) -> tuple[np.ndarray, int]:
 
 
 def _restricted(
-    free: WeightedQP,
-    fixed: WeightedQP | None,
+    free: WeightedQP | ReducedQP,
+    fixed: WeightedQP | ReducedQP | None,
     W: np.ndarray,
     spaces: list[StateSpace],
     ratios: list[float | None],
@@ -381,7 +392,7 @@ def _restricted(
 
 
 def _unrestricted(
-    qp: WeightedQP, W: np.ndarray, spaces: list[StateSpace]
+    qp: WeightedQP | ReducedQP, W: np.ndarray, spaces: list[StateSpace]
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """The optimum of each sample: ``y`` (S, 3), temperature (S,) [K], pressure (S,) [Pa]
     and fluid index (S,)."""

@@ -1,0 +1,226 @@
+"""The weight-sensitivity subproblems in the null space of their equality rows.
+
+For every weight sample, :mod:`compromise.explore.sensitivity` solves the convex subproblem of
+each candidate at many fluid states:
+
+    minimise  sum_k W_k (a_k . y + r_k)^2 + reg |y - y0|^2   subject to  G y <= h,  E y = e
+
+over the three log-ratios ``y`` (the weights ``W`` and the regularisation ``reg`` per sample;
+``r``, ``h`` and ``e`` per fluid state). The equality rows (a group kept exactly, a fixed
+preferred ratio, a fixed distortion) leave ``y = y_p + D t``: ``y_p`` the least-norm solution of
+the equalities, ``D`` an orthonormal basis of their null space, and only ``k = 3 - rank(E)``
+free variables ``t``. The objective is ``t' Q t + 2 b' t`` plus a constant, with
+``Q = (A D)' W (A D) + reg I`` per sample, and the rows ``(G D) t <= h - G y_p``.
+
+* ``k = 1`` (a candidate at a fixed ratio in a Froude model): the unconstrained minimiser,
+  clipped to the interval the rows leave.
+* ``k = 2``: the unconstrained minimiser where it is feasible; otherwise the optimum lies on the
+  boundary of the feasible polygon, on the edge where the objective is least: along each edge's
+  line, the minimiser clipped to the segment the other rows leave.
+* ``k = 0``: the one point, if feasible.
+
+A strictly convex QP has one minimiser, so this is the optimum the enumeration of active sets
+(:class:`compromise.explore.sensitivity.WeightedQP`) finds, in a few array operations per
+sample and state instead of one product per candidate active set. A row is met within the
+solver's tolerance (:data:`compromise.solving.qp.FEASIBILITY_TOL`); a point on a row's boundary
+is placed on the exact boundary, as the enumeration's active rows are. Three free variables
+(no equality row) stay with the enumeration.
+
+References
+----------
+Nocedal, J., Wright, S. J. (2006). *Numerical Optimization*, 2nd ed., sections 16.2 (the
+null-space method for equality-constrained quadratic programs) and 16.5 (active sets), from
+memory.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from compromise.solving.grid import REGULARISATION
+from compromise.solving.problem import Problem
+from compromise.solving.qp import FEASIBILITY_TOL
+
+PARALLEL = 1e-12  # |G_j D| below this (relative to |G_j|): the row is fixed by the equalities
+
+
+class ReducedQP:
+    """The subproblems of a problem for many weight vectors, in the equalities' null space.
+
+    Parameters
+    ----------
+    problem : Problem
+    extra_E : (j, 3) array, optional
+        Extra equality rows (a fixed horizontal ratio).
+    """
+
+    def __init__(self, problem: Problem, extra_E: np.ndarray | None = None) -> None:
+        self.problem = problem
+        self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
+        E = np.vstack([problem.E, self.extra])
+        keep: list[int] = []
+        for j in range(E.shape[0]):
+            if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
+                keep.append(j)
+        self.E, self.keep = E, keep
+        self.others = [j for j in range(E.shape[0]) if j not in keep]
+        Ek = E[keep]
+        if keep:
+            self.pinv = Ek.T @ np.linalg.inv(Ek @ Ek.T)  # (3, rank)
+            self.D = np.linalg.svd(Ek)[2][len(keep) :].T  # (3, k), orthonormal
+        else:
+            self.pinv = np.zeros((3, 0))
+            self.D = np.eye(3)
+        self.k = self.D.shape[1]
+        self.alpha = problem.A @ self.D  # (K, k)
+        self.GD = problem.G @ self.D  # (m, k)
+        scale = np.maximum(1.0, np.linalg.norm(problem.G, axis=1))
+        self.fixed_rows = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
+        m_ = problem.case.model
+        x0 = math.log(m_.horizontal_ratio[1])
+        z0 = x0 + math.log(m_.distortion[0])
+        self.y0 = np.array([x0, z0, 0.5 * z0])
+
+    @property
+    def supported(self) -> bool:
+        """Whether at most two variables are free (else the enumeration is used)."""
+        return self.k <= 2
+
+    def prepare(self, W: np.ndarray) -> tuple[np.ndarray, ...]:
+        """Per-sample ``Q`` (S, k, k) and regularisation (S,) for weights ``W`` (S, K)."""
+        A = self.problem.A
+        H = 2.0 * np.einsum("ki,sk,kj->sij", A, W, A)
+        reg = REGULARISATION * np.maximum(1.0, np.trace(H, axis1=1, axis2=2) / 3.0)
+        Q = np.einsum("ki,sk,kj->sij", self.alpha, W, self.alpha)
+        Q = Q + reg[:, None, None] * np.eye(self.k)
+        return Q, reg
+
+    def solve(
+        self,
+        W: np.ndarray,
+        prep: tuple[np.ndarray, ...],
+        p: np.ndarray,
+        extra_e: np.ndarray | None = None,
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Optimal ``y`` (S, R, 3) and weighted mismatch (S, R) for weights ``W`` (S, K) and
+        property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible (``y`` then nan)."""
+        pr = self.problem
+        Q, reg = prep
+        S, R = p.shape[0], p.shape[1]
+        p2 = p.reshape(S * R, -1)  # products over all states at once (2-D, one BLAS call)
+        r = p2 @ pr.B.T  # (S R, K)
+        h = pr.h0 + p2 @ pr.P.T  # (S R, m)
+        e = pr.e0 + p2 @ pr.Q.T
+        if self.extra.shape[0]:
+            ee = np.broadcast_to(extra_e, (S, R, self.extra.shape[0])).reshape(S * R, -1)
+            e = np.concatenate([e, ee], axis=1)
+        yp = e[:, self.keep] @ self.pinv.T  # (S R, 3)
+        ok = np.ones(S * R, dtype=bool)
+        if self.others:
+            eo = e[:, self.others]
+            gap = np.abs(yp @ self.E[self.others].T - eo)
+            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+        Gyp = yp @ pr.G.T
+        g0 = (h - Gyp).reshape(S, R, -1)  # the rows' room at t = 0
+        g = (h + FEASIBILITY_TOL * (1.0 + np.abs(h)) - Gyp).reshape(S, R, -1)  # within tolerance
+        ok = ok.reshape(S, R)
+        if self.fixed_rows.any():
+            ok &= np.all(g[..., self.fixed_rows] >= 0.0, axis=2)
+        beta = (yp @ pr.A.T + r).reshape(S, R, -1)  # the residuals at t = 0
+        Wb = (beta * W[:, None, :]).reshape(S * R, -1)
+        b = (Wb @ self.alpha + np.repeat(reg, R)[:, None] * ((yp - self.y0) @ self.D)).reshape(
+            S, R, -1
+        )
+        if self.k == 0:
+            t = np.zeros((S, R, 0))
+        elif self.k == 1:
+            t, feasible = self._one(Q, b, g0, g)
+            ok &= feasible
+        else:
+            t, feasible = self._two(Q, b, g0, g)
+            ok &= feasible
+        y = yp + t.reshape(S * R, -1) @ self.D.T
+        res = (y @ pr.A.T + r).reshape(S, R, -1)
+        J = np.where(ok, np.sum(W[:, None, :] * res**2, axis=2), np.inf)
+        y = y.reshape(S, R, 3)
+        y[~ok] = np.nan
+        return y, J
+
+    def _one(
+        self, Q: np.ndarray, b: np.ndarray, g0: np.ndarray, g: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """One free variable: the minimiser clipped to the rows' interval."""
+        a = self.GD[:, 0]
+        live = ~self.fixed_rows
+        up, down = live & (a > 0), live & (a < 0)
+        S, R = b.shape[0], b.shape[1]
+        inf = np.full((S, R), np.inf)
+        hi0 = np.min(g0[..., up] / a[up], axis=2) if up.any() else inf
+        hi = np.min(g[..., up] / a[up], axis=2) if up.any() else inf
+        lo0 = np.max(g0[..., down] / a[down], axis=2) if down.any() else -inf
+        lo = np.max(g[..., down] / a[down], axis=2) if down.any() else -inf
+        tstar = -b[..., 0] / Q[:, None, 0, 0]
+        t = np.minimum(np.maximum(tstar, lo0), hi0)
+        return t[..., None], lo <= hi
+
+    def _two(
+        self, Q: np.ndarray, b: np.ndarray, g0: np.ndarray, g: np.ndarray
+    ) -> tuple[np.ndarray, np.ndarray]:
+        """Two free variables: the unconstrained minimiser, or the best edge."""
+        GD = self.GD
+        S, R = b.shape[0], b.shape[1]
+        q00, q01, q11 = Q[:, None, 0, 0], Q[:, None, 0, 1], Q[:, None, 1, 1]
+        b0, b1 = b[..., 0], b[..., 1]
+        det = q00 * q11 - q01 * q01
+        tstar = np.stack([(q01 * b1 - q11 * b0) / det, (q01 * b0 - q00 * b1) / det], axis=2)
+        live = np.flatnonzero(~self.fixed_rows)
+        at = (tstar.reshape(S * R, 2) @ GD[live].T).reshape(S, R, -1)
+        violated = at > g[..., live]  # (S, R, rows)
+        inside = ~violated.any(axis=2)
+        if inside.all():
+            return tstar, inside
+        # the optimum lies on a row that the unconstrained minimiser violates (were all rows
+        # binding there met at the minimiser, it would be the optimum); along each such row's
+        # line, the minimiser clipped to the segment the other rows leave
+        t = tstar.reshape(S * R, 2).copy()
+        best = np.full(S * R, np.inf)
+        found = inside.reshape(-1).copy()
+        flat_g0, flat_g = g0.reshape(S * R, -1), g.reshape(S * R, -1)
+        bs = b.reshape(S * R, 2)
+        viol = violated.reshape(S * R, -1)
+        for i, j in enumerate(live):
+            cols = np.flatnonzero(viol[:, i])
+            if cols.size == 0:
+                continue
+            c = float(np.linalg.norm(GD[j]))
+            n = GD[j] / c
+            u = np.array([-n[1], n[0]])
+            d = flat_g0[cols, j] / c  # the line's point nearest the origin: d n
+            Gn, Gu = GD[live] @ n, GD[live] @ u  # (rows,)
+            room0 = flat_g0[cols][:, live] - d[:, None] * Gn  # (cols, rows)
+            room = flat_g[cols][:, live] - d[:, None] * Gn
+            pos, neg = Gu > PARALLEL, Gu < -PARALLEL
+            par = ~pos & ~neg
+            inf = np.full(cols.size, np.inf)
+            shi0 = np.min(room0[:, pos] / Gu[pos], axis=1) if pos.any() else inf
+            shi = np.min(room[:, pos] / Gu[pos], axis=1) if pos.any() else inf
+            slo0 = np.max(room0[:, neg] / Gu[neg], axis=1) if neg.any() else -inf
+            slo = np.max(room[:, neg] / Gu[neg], axis=1) if neg.any() else -inf
+            feasible = slo <= shi
+            if par.any():
+                feasible &= np.all(room[:, par] >= 0.0, axis=1)
+            # along t = d n + s u: psi = s^2 u'Qu + 2 s u'(d Q n + b) + const
+            q = Q[cols // R]
+            Qu, Qn = q @ u, q @ n  # (cols, 2)
+            uQu, uQn, nQn = Qu @ u, Qu @ n, Qn @ n
+            ub, nb = bs[cols] @ u, bs[cols] @ n
+            sv = np.minimum(np.maximum(-(d * uQn + ub) / uQu, slo0), shi0)
+            psi = d * d * nQn + 2.0 * d * sv * uQn + sv * sv * uQu + 2.0 * (d * nb + sv * ub)
+            better = feasible & (psi < best[cols])
+            upd = cols[better]
+            best[upd] = psi[better]
+            t[upd] = d[better, None] * n + sv[better, None] * u
+            found[cols] |= feasible
+        return t.reshape(S, R, 2), found.reshape(S, R)

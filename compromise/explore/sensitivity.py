@@ -15,6 +15,13 @@ are reported as tied rather than split by the search's residue.
 With fewer than two weighted groups, a weight factor scales every candidate's mismatch alike and
 cannot change which is best; the result says so (:attr:`Sensitivity.note`).
 
+A candidate that matches every weighted group at the case's weights (its mismatch, solved with
+the fine zoom, times the spread below :data:`ZERO_BAND`) matches them at any weights: in every
+sample its mismatch lies between the least and the largest weight factor times the nominal
+one, a tie at zero. Such candidates are settled once and not re-solved per sample; likewise,
+when the unrestricted optimum at the case's weights matches every weighted group, it is every
+sample's optimum (among designs that all match, the tie-break's choice).
+
 A sample changes only the weights, so only the Hessian of the convex subproblems
 (:mod:`compromise.solving.problem`) changes. Where the equality rows leave at most two of the
 three log-ratios free (a group kept exactly, a fixed preferred ratio, a fixed distortion: every
@@ -57,11 +64,12 @@ from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import FEASIBILITY_TOL
 from compromise.solving.threads import one_blas_thread
 
-CHUNK = 5000  # samples per batch
+CHUNK = 250  # samples per batch
 N_TEMPERATURES = 12
 ZOOM_ROUNDS = 3
 REFINE_BAND = 1e-4  # [-] candidates this close to a sample's best (plus 1e-3 of it) are refined
 REFINE_ZOOM_ROUNDS = 8  # the zoom of the refinement: a 1 K cell resolved to about 2e-5 K
+ZERO_BAND = 1e-3 * TIE_ABS  # [-] nominal mismatch x spread below this: a tie at zero always
 
 
 class WeightedQP:
@@ -305,14 +313,35 @@ def weight_sensitivity(
     fixed = weighted_qp(problem, np.array([[1.0, 0.0, 0.0]])) if ratios[0] is not None else None
     all_f = np.vstack([np.ones((1, K)), factors])  # row 0: the nominal weights
     wins_obj, opt_y, opt_T, opt_fluid = [], [], [], []
+    # a candidate that matches every weighted group at the case's weights matches them at any
+    # weights: its mismatch in a sample lies between the least and the largest factor times
+    # the nominal one (the nominal design stays feasible, and no design does better than the
+    # least factor's share of the nominal optimum), a tie at zero in every sample. Such
+    # candidates are "settled" by one fine solve at the case's weights and not re-solved.
+    J0 = _restricted(
+        free, fixed, problem.W * all_f[:1], spaces, ratios, zoom_rounds=REFINE_ZOOM_ROUNDS
+    )[0]
+    settled = np.isfinite(J0) & (J0 * spread <= ZERO_BAND)
+    nominal: tuple[np.ndarray, ...] | None = None
     for a in range(0, all_f.shape[0], CHUNK):
-        W = problem.W * all_f[a : a + CHUNK]
-        J = _restricted(free, fixed, W, spaces, ratios)
-        y, T, P, fl = _unrestricted(free, W, spaces)
+        f = all_f[a : a + CHUNK]
+        W = problem.W * f
+        J = _restricted(free, fixed, W, spaces, ratios, only=~settled)
+        J[:, settled] = J0[settled] * np.max(f, axis=1)[:, None]
+        if nominal is None:
+            y, T, P, fl, Jo = _unrestricted(free, W, spaces)
+            if a == 0 and math.isfinite(Jo[0]) and Jo[0] * spread <= ZERO_BAND:
+                # likewise the unrestricted optimum: every sample's optimum matches every
+                # weighted group, and the case's own optimum is one of them
+                nominal = (y[0], T[0], P[0], fl[0])
+        else:
+            n = W.shape[0]
+            y, T, P = np.tile(nominal[0], (n, 1)), np.full(n, nominal[1]), np.full(n, nominal[2])
+            fl = np.full(n, nominal[3])
         wins_obj.append(J), opt_y.append(y), opt_T.append(np.column_stack([T, P]))
         opt_fluid.append(fl)
     J = np.vstack(wins_obj)  # (1 + samples, candidates)
-    J = _refine(free, fixed, problem.W * all_f, J, spaces, ratios)
+    J = _refine(free, fixed, problem.W * all_f, J, spaces, ratios, settled)
     tallied = tally(
         J,
         [f for f in case.model.fluids for _ in ratios],
@@ -340,18 +369,23 @@ def _refine(
     J: np.ndarray,
     spaces: list[StateSpace],
     ratios: list[float | None],
+    settled: np.ndarray | None = None,
 ) -> np.ndarray:
     """``J`` (rows, candidates) with every row where two or more candidates are near the best
-    solved again with a finer zoom (see the module docstring)."""
+    solved again with a finer zoom (see the module docstring); candidates ``settled`` (tied at
+    zero in every sample, see :func:`weight_sensitivity`) need no finer zoom."""
     low = np.min(J, axis=1, keepdims=True)
     near = np.isfinite(J) & (J <= low + REFINE_BAND + 1e-3 * np.abs(low))
-    rows = np.flatnonzero(near.sum(axis=1) > 1)
+    busy = np.ones(J.shape[1], dtype=bool) if settled is None else ~settled
+    rows = np.flatnonzero((near.sum(axis=1) > 1) & (near & busy).any(axis=1))
     if rows.size == 0:
         return J
     out = J.copy()
     for a in range(0, rows.size, CHUNK):
         r = rows[a : a + CHUNK]
-        fine = _restricted(free, fixed, W[r], spaces, ratios, zoom_rounds=REFINE_ZOOM_ROUNDS)
+        fine = _restricted(
+            free, fixed, W[r], spaces, ratios, zoom_rounds=REFINE_ZOOM_ROUNDS, only=busy
+        )
         out[r] = np.minimum(out[r], fine)
     return out
 
@@ -371,31 +405,39 @@ def _restricted(
     ratios: list[float | None],
     *,
     zoom_rounds: int = ZOOM_ROUNDS,
+    only: np.ndarray | None = None,
 ) -> np.ndarray:
-    """Weighted mismatch (S, fluids x ratios) of each candidate's best design."""
+    """Weighted mismatch (S, fluids x ratios) of each candidate's best design (of the
+    candidates ``only``, a mask, when given; the others inf)."""
     qp = free if fixed is None else fixed
+    n_all = len(spaces) * len(ratios)
+    cands = np.arange(n_all) if only is None else np.flatnonzero(only)
+    out = np.full((W.shape[0], n_all), np.inf)
+    if cands.size == 0:
+        return out
     prep = qp.prepare(W)
-    n_c = len(spaces) * len(ratios)
+    n_c = cands.size
     lr = np.array([0.0 if r is None else math.log(r) for r in ratios])
 
     def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
         u, R = _blocks(items, n_c)
-        ex = lr[(items % n_c) % len(ratios)].reshape(u.size, R, 1) if fixed else None
+        ex = lr[cands[items % n_c] % len(ratios)].reshape(u.size, R, 1) if fixed else None
         sub = prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
         return qp.solve(W[u], sub, p.reshape(u.size, R, -1), ex)[1].ravel()
 
-    fluid = np.tile(np.repeat(np.arange(len(spaces)), len(ratios)), W.shape[0])
+    fluid = np.tile(cands // len(ratios), W.shape[0])
     _, _, J = lower_envelope(
         spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=zoom_rounds
     )
-    return J.reshape(W.shape[0], n_c)
+    out[:, cands] = J.reshape(W.shape[0], n_c)
+    return out
 
 
 def _unrestricted(
     qp: WeightedQP | ReducedQP, W: np.ndarray, spaces: list[StateSpace]
-) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
-    """The optimum of each sample: ``y`` (S, 3), temperature (S,) [K], pressure (S,) [Pa]
-    and fluid index (S,)."""
+) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
+    """The optimum of each sample: ``y`` (S, 3), temperature (S,) [K], pressure (S,) [Pa],
+    fluid index (S,) and weighted mismatch (S,; inf: none feasible)."""
     prep = qp.prepare(W)
     F = len(spaces)
 
@@ -413,6 +455,7 @@ def _unrestricted(
     J = J.reshape(W.shape[0], F)
     best = winners_of(J)
     S = W.shape[0]
+    Jb = np.where(best >= 0, J[np.arange(S), np.maximum(best, 0)], np.inf)
     y = np.full((S, 3), np.nan)
     Tb = np.full(S, np.nan)
     Pb = np.full(S, np.nan)
@@ -425,4 +468,4 @@ def _unrestricted(
         y[s] = qp.solve(W[s], sub(s), p[:, None, :])[0][:, 0]
         Tb[s] = T[i]
         Pb[s] = np.exp(lnp[i])
-    return y, Tb, Pb, best
+    return y, Tb, Pb, best, Jb

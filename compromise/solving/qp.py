@@ -175,7 +175,18 @@ class SmallQP:
         """Right-hand sides (N, rows) -> (N, distinct normals): the smallest of each group."""
         if not self._collapsed:
             return h
-        return np.minimum.reduceat(h[:, self._order], self._starts, axis=1)
+        groups = self.__dict__.get("_groups")
+        if groups is None:
+            groups = self._groups = [
+                (u, members) for u, members in enumerate(np.split(self._order, self._starts[1:]))
+            ]
+        out = np.empty((h.shape[0], len(groups)))
+        for u, members in groups:
+            if members.size == 1:
+                out[:, u] = h[:, members[0]]
+            else:
+                np.min(h[:, members], axis=1, out=out[:, u])
+        return out
 
     def _solve_active_set(
         self, f: np.ndarray, h: np.ndarray, e: np.ndarray

@@ -247,30 +247,32 @@ class SmallQP:
         (ns, n, N), linear terms ``f`` (N, n), row bounds with their tolerance ``top``
         (m, N), equality right-hand sides ``et`` (q, N) and their tolerance ``etol``."""
         ns, _, N = Y.shape
-        ok = np.ones((ns, N), dtype=bool)
         # the rows' values at every candidate's point, from the points themselves (n products
         # a row, not r): they only decide feasibility, against a tolerance far above their
         # rounding, and the points and values are the products' own
         if self.m:
-            ok &= np.all(np.matmul(self.G, Y) <= top[None], axis=1)
+            ok = np.all(np.matmul(self.G, Y) <= top[None], axis=1)
+        else:
+            ok = np.ones((ns, N), dtype=bool)
         if self._check_eq:
             EY = np.matmul(self.E, Y)
             ok &= np.all(np.abs(EY - et[None]) <= etol[None], axis=1)
         # the values only of candidates feasible somewhere (each candidate's products are its
-        # own: the same numbers as over all of them)
+        # own: the same numbers as over all of them); the least of them, the first of equals
+        # (the candidates in their order, as an argmin over all of them would take it)
         some = np.flatnonzero(ok.any(axis=1))
-        val = np.full((ns, N), np.inf)
-        if some.size:
-            Ys = Y[some]
-            vs = np.einsum("sin,sin->sn", Ys, 0.5 * np.matmul(self.H, Ys) + f.T[None])
-            val[some] = np.where(ok[some], vs, np.inf)
-        best = np.argmin(val, axis=0)
+        if some.size == 0:
+            return np.full((N, self.n), np.nan), np.full(N, np.inf), np.full(N, -1)
+        Ys = Y[some]
+        vs = np.einsum("sin,sin->sn", Ys, 0.5 * np.matmul(self.H, Ys) + f.T[None])
+        vs = np.where(ok[some], vs, np.inf)
+        k = np.argmin(vs, axis=0)
         idx = np.arange(N)
-        v = val[best, idx]
-        y = Y[best, :, idx]
+        v = vs[k, idx]
+        y = Ys[k, :, idx]
         feasible = np.isfinite(v)
         y[~feasible] = np.nan
-        return y, v, np.where(feasible, best, -1)
+        return y, v, np.where(feasible, some[k], -1)
 
     def multipliers(self, active: int, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> np.ndarray:
         """Multipliers (rows,) of the inequality rows for one solved subproblem (zero if inactive).

@@ -222,18 +222,20 @@ class SmallQP:
         N, ns, n = f.shape[0], len(self.subsets), self.n
         rhs = np.hstack([-f, e, h]).T  # (r, N)
         Y = (self._maps @ rhs).reshape(ns, n, N)
-        y = np.empty((N, n))
-        v = np.empty(N)
-        active = np.empty(N, dtype=int)
         # the checks and values by blocks of columns whose row values stay in the cache; a
         # block of one column would take another BLAS routine, so the last one never is
-        width = max(64, BLOCK_VALUES // max(1, ns * max(self.m, self.q)))
-        edges = [*range(0, N, width), N]
-        if len(edges) > 2 and edges[-1] - edges[-2] < 2:
-            edges.pop(-2)
+        width = max(256, BLOCK_VALUES // max(1, ns * max(self.m, self.q)))
         ht, et = h.T, e.T
         top = ht + FEASIBILITY_TOL * (1.0 + np.abs(ht))  # (m, N)
         etol = FEASIBILITY_TOL * (1.0 + np.abs(et))  # (q, N)
+        if N <= width:
+            return self._block(Y, f, top, et, etol)
+        y = np.empty((N, n))
+        v = np.empty(N)
+        active = np.empty(N, dtype=int)
+        edges = [*range(0, N, width), N]
+        if len(edges) > 2 and edges[-1] - edges[-2] < 2:
+            edges.pop(-2)
         for a, b in itertools.pairwise(edges):
             y[a:b], v[a:b], active[a:b] = self._block(
                 Y[:, :, a:b], f[a:b], top[:, a:b], et[:, a:b], etol[:, a:b]

@@ -414,18 +414,24 @@ def evaluate(expr: Expr, env: Mapping[str, float | np.ndarray]) -> float | np.nd
     0.30724
     """
 
+    with np.errstate(all="ignore"):
+        result = compiled(expr)(env)
+    if np.ndim(result) == 0:
+        return float(result)
+    return np.asarray(result)
+
+
+def compiled(expr: Expr) -> Callable[[Mapping[str, Any]], Any]:
+    """The expression as a function of the environment (what :func:`evaluate` runs, without
+    its ``np.errstate`` and its conversion of the result: for callers that evaluate many
+    expressions inside one ``np.errstate(all="ignore")`` of their own)."""
     kept = _COMPILED.get(id(expr))
     if kept is None or kept[0] is not expr:
         kept = (expr, _compile(expr, expr))
         if len(_COMPILED) >= 4096:
             _COMPILED.clear()
         _COMPILED[id(expr)] = kept
-    run = kept[1]
-    with np.errstate(all="ignore"):
-        result = run(env)
-    if np.ndim(result) == 0:
-        return float(result)
-    return np.asarray(result)
+    return kept[1]
 
 
 #: compiled expressions (:func:`_compile`) by the expression's id, beside the expression itself

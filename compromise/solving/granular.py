@@ -34,6 +34,7 @@ import numpy as np
 from compromise import expressions as ex
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
+from compromise.expressions.syntax import compiled
 from compromise.physics.scaling import N_DECISION
 from compromise.solving.grid import (
     N_TEMPERATURES,
@@ -172,13 +173,13 @@ class GranularProblem:
     def log_mismatch(self, name: str, u: np.ndarray, p: np.ndarray, rho_s: Any) -> np.ndarray:
         """``ln(model / prototype)`` of a group (condition 0)."""
         env = self.model_env(u, p, rho_s)
-        with np.errstate(divide="ignore", invalid="ignore"):
+        with np.errstate(all="ignore"):
             return self._log_mismatch_in(name, env)
 
     def _log_mismatch_in(self, name: str, env: dict) -> np.ndarray:
         """:meth:`log_mismatch` from the model values ``env`` of :meth:`model_env` (inside
         the caller's ``np.errstate``)."""
-        mv = ex.evaluate(self.exprs[name], env)
+        mv = compiled(self.exprs[name])(env)
         return np.log(np.asarray(mv, dtype=float) / self.proto_values[name][0])
 
     def _normal(self, name: str) -> np.ndarray | None:
@@ -243,7 +244,7 @@ class GranularProblem:
                 *(ex.names(self.exprs[n]) for n in linear)
             )
         env = self.model_env(u, p, rho_s, names, at_zero=True) if linear else {}
-        with np.errstate(divide="ignore", invalid="ignore"):
+        with np.errstate(all="ignore"):
             for n in self.groups:
                 if self.normals[n] is None:
                     cols.append(np.zeros(p.shape[0]))

@@ -46,6 +46,24 @@ from compromise.solving.qp import FEASIBILITY_TOL
 PARALLEL = 1e-12  # |G_j D| below this (relative to |G_j|): the row is fixed by the equalities
 
 
+def independent_rows(E: np.ndarray) -> list[int]:
+    """Indices of a linearly independent subset of the rows of ``E``, first rows first."""
+    keep: list[int] = []
+    for j in range(E.shape[0]):
+        if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
+            keep.append(j)
+    return keep
+
+
+def tie_break_point(problem: Problem) -> np.ndarray:
+    """The point ``y0`` the regularisation leans toward: the largest, least distorted model
+    with Froude velocities (as the solver's tie-break)."""
+    m_ = problem.case.model
+    x0 = math.log(m_.horizontal_ratio[1])
+    z0 = x0 + math.log(m_.distortion[0])
+    return np.array([x0, z0, 0.5 * z0])
+
+
 class ReducedQP:
     """The subproblems of a problem for many weight vectors, in the equalities' null space.
 
@@ -60,10 +78,7 @@ class ReducedQP:
         self.problem = problem
         self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
         E = np.vstack([problem.E, self.extra])
-        keep: list[int] = []
-        for j in range(E.shape[0]):
-            if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
-                keep.append(j)
+        keep = independent_rows(E)
         self.E, self.keep = E, keep
         self.others = [j for j in range(E.shape[0]) if j not in keep]
         Ek = E[keep]
@@ -78,10 +93,7 @@ class ReducedQP:
         self.GD = problem.G @ self.D  # (m, k)
         scale = np.maximum(1.0, np.linalg.norm(problem.G, axis=1))
         self.fixed_rows = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
-        m_ = problem.case.model
-        x0 = math.log(m_.horizontal_ratio[1])
-        z0 = x0 + math.log(m_.distortion[0])
-        self.y0 = np.array([x0, z0, 0.5 * z0])
+        self.y0 = tie_break_point(problem)
 
     @property
     def supported(self) -> bool:

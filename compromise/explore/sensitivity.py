@@ -44,7 +44,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.envelope import StateSpace, lower_envelope
-from compromise.explore.reduced_qp import ReducedQP
+from compromise.explore.reduced_qp import ReducedQP, independent_rows, tie_break_point
 from compromise.explore.sensitivity_result import (  # noqa: F401  (re-exported)
     TIE_ABS,
     VARIABLES,
@@ -88,10 +88,7 @@ class WeightedQP:
         E = np.vstack([problem.E, self.extra])
         G = problem.G
         n, m, q = 3, G.shape[0], E.shape[0]
-        keep: list[int] = []
-        for j in range(q):
-            if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
-                keep.append(j)
+        keep = independent_rows(E)
         self.E, self.keep, self.m, self.q = E, keep, m, q
         self.groups: list[tuple[np.ndarray, np.ndarray]] = []  # (combos (c, k), C (c, ne+k, 3))
         for k in range(min(n - len(keep), m) + 1):
@@ -111,10 +108,7 @@ class WeightedQP:
                         np.array(Cs).reshape(len(combos), len(keep) + k, n),
                     )
                 )
-        m_ = problem.case.model
-        x0 = math.log(m_.horizontal_ratio[1])
-        z0 = x0 + math.log(m_.distortion[0])
-        self.y0 = np.array([x0, z0, 0.5 * z0])
+        self.y0 = tie_break_point(problem)
         #: whether the next :meth:`solve` checks every candidate at once (see there)
         self.check_all = False
 

@@ -447,3 +447,41 @@ def test_granular_sensitivity_winners_agree_with_the_solver_at_the_sampled_weigh
     assert np.array_equal(again.winners, sens.winners)
     res = CliRunner().invoke(app, ["sensitivity", str(path), "--samples", "50", "--json"])
     assert res.exit_code == 0, res.output
+
+
+def test_scales_of_a_sediment_case_choose_the_solvers_material_and_grain() -> None:
+    # at the solver's own ratios and fluid state, the least-mismatch grain for those ratios is
+    # the optimum's grain (the optimum minimises over the grain too; its floor does not bind
+    # here: common practice, the model bed must move, and it does at 2.1 mm)
+    case = load_case(ROOT / "cases" / "heron_reach.toml")
+    sol = find_optimum(case, alternatives=False)
+    d = sol.design
+    assert d is not None and d.grain_size is not None
+    from compromise.solving.scales import scale_table
+
+    table = scale_table(
+        case,
+        d.horizontal_ratio,
+        vertical=d.vertical_ratio,
+        fluid=d.fluid,
+        temperature=d.temperature,
+    )
+    assert table.design.material == d.material == "polystyrene"
+    # (to the solver's 1e-10 tie-break regularisation, which leans the grain a little)
+    assert table.design.grain_size == pytest.approx(d.grain_size, rel=1e-6)
+    res = CliRunner().invoke(
+        app,
+        [
+            "scales",
+            str(ROOT / "cases" / "heron_reach.toml"),
+            "--ratio",
+            "1:200",
+            "--vertical",
+            "1:42.857142857142854",
+            "--temperature",
+            "12 degC",
+        ],
+    )
+    assert res.exit_code == 0, res.output
+    assert "model material     polystyrene" in res.output
+    assert "model grain size   2.108 mm" in res.output

@@ -214,8 +214,8 @@ def test_sensitivity_says_tied_not_wins(runner: CliRunner, tmp_path: Path) -> No
 
 
 def _breakwater_without_armour(tmp_path: Path) -> Path:
-    """The breakwater case without its armour layer ([sediment] and the stability number):
-    sensitivity does not yet take the material and grain size as decisions."""
+    """The breakwater case without its armour layer ([sediment] and the stability number): a
+    case with one weighted group left."""
     text = (CASES / "breakwater.toml").read_text(encoding="utf-8")
     head, rest = text.split("[sediment]", 1)
     head = "\n".join(ln for ln in head.splitlines() if not ln.startswith("stability_number"))

@@ -9,6 +9,7 @@ friction law holds (:func:`compromise.physics.scaling.friction_law`).
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from dataclasses import dataclass, field
 from typing import Any
@@ -275,6 +276,17 @@ def scale_table(
         pressure=pressure,
     )
     vertical = design.vertical_ratio
+    if case.sediment is not None:  # the material and grain that suit these ratios best
+        from compromise.solving.granular import grain_for_ratios
+
+        material, grain, _ = grain_for_ratios(
+            case, design.fluid, design.temperature, design.pressure, design.logs
+        )
+        design = dataclasses.replace(design, material=material, grain_size=grain)
+        notes.append(
+            f"model material {material}, grain size {grain * 1e3:.4g} mm: the least weighted "
+            "mismatch for these ratios and this fluid (limits are checked below, not imposed)"
+        )
     p = property_log_ratios(case, fluid, temperature, pressure)
     y = design.logs
     rough = case.quantities.get("roughness")

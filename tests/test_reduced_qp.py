@@ -84,3 +84,32 @@ def test_sensitivity_winners_equal_the_enumerations(
     assert _winners(fast) == _winners(slow)
     if name != "river_bend":  # every candidate there matches every weighted group
         assert fast.tied_samples == samples
+
+
+def test_no_free_variable_left_is_the_one_point_if_feasible() -> None:
+    """Froude kept, the distortion fixed and the ratio fixed: nothing is free (k = 0), and the
+    one point is the enumeration's answer where it is feasible (and infeasible alike)."""
+    import tomllib
+
+    from compromise.casefile.load import case_from_dict
+
+    data = tomllib.loads((ROOT / "cases" / "river_bend.toml").read_text(encoding="utf-8"))
+    data["model"]["distortion"] = 4
+    case = case_from_dict(data, path="river_fixed_distortion.toml")
+    problem = build_problem(case)
+    extra = np.array([[1.0, 0.0, 0.0]])
+    reduced, enumerated = ReducedQP(problem, extra), WeightedQP(problem, extra)
+    assert reduced.k == 0
+    rng = np.random.default_rng(5)
+    S, R = 20, 12
+    W = problem.W * np.exp(rng.uniform(-np.log(10), np.log(10), (S, problem.A.shape[0])))
+    fs = FluidStates(case, case.model.fluids[0], problem.used_properties)
+    p = fs.p(rng.uniform(*fs.t_range, S * R), float(fs.pressures()[0])).reshape(S, R, -1)
+    ex = np.log(rng.uniform(1 / 200, 1 / 40, (S, R, 1)))
+    y1, J1 = reduced.solve(W, reduced.prepare(W), p, ex)
+    y2, J2 = enumerated.solve(W, enumerated.prepare(W), p, ex)
+    assert np.array_equal(np.isfinite(J1), np.isfinite(J2))
+    assert 0 < np.isfinite(J1).sum() < J1.size  # both outcomes occur
+    ok = np.isfinite(J1)
+    np.testing.assert_allclose(J1[ok], J2[ok], rtol=1e-9)
+    np.testing.assert_allclose(y1[ok], y2[ok], rtol=1e-9, atol=1e-12)

@@ -41,18 +41,9 @@ import numpy as np
 
 from compromise.solving.grid import REGULARISATION
 from compromise.solving.problem import Problem
-from compromise.solving.qp import FEASIBILITY_TOL
+from compromise.solving.qp import FEASIBILITY_TOL, independent_rows
 
 PARALLEL = 1e-12  # |G_j D| below this (relative to |G_j|): the row is fixed by the equalities
-
-
-def independent_rows(E: np.ndarray) -> list[int]:
-    """Indices of a linearly independent subset of the rows of ``E``, first rows first."""
-    keep: list[int] = []
-    for j in range(E.shape[0]):
-        if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
-            keep.append(j)
-    return keep
 
 
 def tie_break_point(problem: Problem) -> np.ndarray:

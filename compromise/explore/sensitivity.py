@@ -44,7 +44,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.envelope import StateSpace, lower_envelope
-from compromise.explore.reduced_qp import ReducedQP, independent_rows, tie_break_point
+from compromise.explore.reduced_qp import ReducedQP, tie_break_point
 from compromise.explore.sensitivity_result import (  # noqa: F401  (re-exported)
     TIE_ABS,
     VARIABLES,
@@ -61,7 +61,7 @@ from compromise.explore.sensitivity_result import (  # noqa: F401  (re-exported)
 )
 from compromise.solving.grid import REGULARISATION, FluidStates
 from compromise.solving.problem import Problem, build_problem
-from compromise.solving.qp import FEASIBILITY_TOL
+from compromise.solving.qp import FEASIBILITY_TOL, independent_rows
 from compromise.solving.threads import one_blas_thread
 
 CHUNK = 250  # samples per batch

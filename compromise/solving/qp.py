@@ -35,6 +35,15 @@ MAX_ENUMERATED_ROWS = 40  # distinct inequality normals up to which active sets 
 BLOCK_VALUES = 2**16  # row values (candidates x rows x columns) checked per block of columns
 
 
+def independent_rows(E: np.ndarray) -> list[int]:
+    """Indices of a linearly independent subset of the rows of ``E``, first rows first."""
+    keep: list[int] = []
+    for j in range(E.shape[0]):
+        if np.linalg.matrix_rank(E[[*keep, j]], tol=1e-10) == len(keep) + 1:
+            keep.append(j)
+    return keep
+
+
 @dataclass(frozen=True)
 class QPBatch:
     """Solutions of a batch of subproblems.
@@ -86,14 +95,12 @@ class SmallQP:
         counts = np.bincount(group, minlength=self.G.shape[0])
         self._starts = np.concatenate([[0], np.cumsum(counts)[:-1]]).astype(int)
         self._collapsed = self.G.shape[0] < self.m_rows
+        #: the input rows of each distinct normal, by distinct normal
+        self._members = np.split(self._order, self._starts[1:])
         m, q = self.G.shape[0], self.E.shape[0]
         self.n, self.m, self.q = n, m, q
         # an independent subset of the equality rows; the others are checked as feasibility
-        eq_keep: list[int] = []
-        for j in range(q):
-            trial = self.E[[*eq_keep, j]]
-            if np.linalg.matrix_rank(trial, tol=1e-10) == len(eq_keep) + 1:
-                eq_keep.append(j)
+        eq_keep = independent_rows(self.E)
         self.eq_keep = eq_keep
         self._check_eq = len(eq_keep) < q
         # past MAX_ENUMERATED_ROWS distinct normals the candidate active sets grow as m^3 (200
@@ -175,13 +182,8 @@ class SmallQP:
         """Right-hand sides (N, rows) -> (N, distinct normals): the smallest of each group."""
         if not self._collapsed:
             return h
-        groups = self.__dict__.get("_groups")
-        if groups is None:
-            groups = self._groups = [
-                (u, members) for u, members in enumerate(np.split(self._order, self._starts[1:]))
-            ]
-        out = np.empty((h.shape[0], len(groups)))
-        for u, members in groups:
+        out = np.empty((h.shape[0], len(self._members)))
+        for u, members in enumerate(self._members):
             if members.size == 1:
                 out[:, u] = h[:, members[0]]
             else:
@@ -290,7 +292,6 @@ class SmallQP:
         rhs = np.concatenate([-np.asarray(f, float), np.asarray(e, float), hu])
         mu = self._mults[active] @ rhs
         out = np.zeros(self.m_rows)
-        groups = np.split(self._order, self._starts[1:])
-        for u, members in enumerate(groups):
+        for u, members in enumerate(self._members):
             out[members[np.argmin(h[members])]] = mu[u]
         return out

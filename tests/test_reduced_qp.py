@@ -113,3 +113,64 @@ def test_no_free_variable_left_is_the_one_point_if_feasible() -> None:
     ok = np.isfinite(J1)
     np.testing.assert_allclose(J1[ok], J2[ok], rtol=1e-9)
     np.testing.assert_allclose(y1[ok], y2[ok], rtol=1e-9, atol=1e-12)
+
+
+@pytest.mark.parametrize("name", CASES)
+@pytest.mark.parametrize("fixed", [False, True])
+def test_shared_state_rows_give_the_enumerated_optimum(name: str, fixed: bool) -> None:
+    """``ReducedQP.values``: what depends on the state alone computed once per distinct state
+    (``states``), then gathered for every (sample, state) pair, in any order, against the
+    enumeration of active sets on the same subproblems."""
+    case = load_case(ROOT / "cases" / f"{name}.toml")
+    problem = build_problem(case)
+    extra = np.array([[1.0, 0.0, 0.0]]) if fixed else None
+    reduced, enumerated = ReducedQP(problem, extra), WeightedQP(problem, extra)
+    rng = np.random.default_rng(17)
+    S, U, N = 30, 25, 900
+    W = problem.W * np.exp(rng.uniform(-np.log(10), np.log(10), (S, problem.A.shape[0])))
+    fs = FluidStates(case, case.model.fluids[0], problem.used_properties)
+    table = fs.p(np.sort(rng.uniform(*fs.t_range, U)), float(fs.pressures()[0]))
+    ratios = case.model.preferred_ratios or (case.model.horizontal_ratio[1],)
+    ex = np.log(np.array(ratios))[rng.integers(0, len(ratios), U)][:, None] if fixed else None
+    sample, state = rng.integers(0, S, N), rng.integers(0, U, N)  # unordered pairs
+    J1 = reduced.values(W, reduced.prepare(W), reduced.states(table, ex), sample, state)
+    # the same subproblems, one sample at a time, by the enumeration
+    J2 = np.empty(N)
+    for s in range(S):
+        rows = np.flatnonzero(sample == s)
+        e = None if ex is None else ex[state[rows]][None]
+        prep = tuple(x[s : s + 1] for x in enumerated.prepare(W))
+        J2[rows] = enumerated.solve(W[s : s + 1], prep, table[state[rows]][None], e)[1][0]
+    assert np.array_equal(np.isfinite(J1), np.isfinite(J2))
+    ok = np.isfinite(J1)
+    assert ok.sum() > 0.2 * N
+    np.testing.assert_allclose(J1[ok], J2[ok], rtol=1e-9, atol=1e-12)
+
+
+def test_each_sample_keeps_its_own_weights_with_several_fluids() -> None:
+    """With two candidate fluids a batch of weight samples is laid out fluid by fluid; every
+    sample's optimum must still be solved with its own weights: the batch gives what each
+    sample gives alone (a river with a surrogate fluid added, so that weights matter)."""
+    import tomllib
+
+    from compromise.casefile.load import case_from_dict
+    from compromise.explore.envelope import StateSpace
+
+    data = tomllib.loads((ROOT / "cases" / "river_bend.toml").read_text(encoding="utf-8"))
+    data["model"]["fluids"] = ["water", "glycerol-water 10%"]
+    case = case_from_dict(data, path="river_two_fluids.toml")
+    problem = build_problem(case)
+    spaces = [StateSpace(FluidStates(case, f, problem.used_properties)) for f in case.model.fluids]
+    factors = sensitivity.draw_factors(10.0, 8, 3, problem.A.shape[0])
+    W = problem.W * factors
+    free = sensitivity.weighted_qp(problem)
+    fixed = sensitivity.weighted_qp(problem, np.array([[1.0, 0.0, 0.0]]))
+    ratios = list(case.model.preferred_ratios)
+    batch_J = sensitivity._unrestricted(free, W, spaces)[4]
+    batch_R = sensitivity._restricted(free, fixed, W, spaces, ratios)
+    assert len(set(np.round(batch_J, 6))) == W.shape[0]  # the weights do matter here
+    for s in range(W.shape[0]):
+        alone_J = sensitivity._unrestricted(free, W[s : s + 1], spaces)[4]
+        alone_R = sensitivity._restricted(free, fixed, W[s : s + 1], spaces, ratios)
+        np.testing.assert_allclose(batch_J[s], alone_J[0], rtol=1e-12)
+        np.testing.assert_allclose(batch_R[s], alone_R[0], rtol=1e-12)

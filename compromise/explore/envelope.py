@@ -64,6 +64,17 @@ class StateSpace:
         tabs = np.stack([self.fs.p(Tu, float(P)) for P in self.pressures])[:, back]  # (J, N, 6)
         return np.einsum("nj,jnk->nk", w, tabs)
 
+    def p_rows(self, T: np.ndarray, lnp: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`p` as distinct rows and an index: ``p(T, lnp) == table[index]``.
+
+        A liquid's (or fixed-pressure gas's) rows are those of the distinct temperatures; a
+        gas with a pressure range gets one row per state."""
+        T = np.atleast_1d(np.asarray(T, dtype=float))
+        if self._weights is None:
+            Tu, back = np.unique(T, return_inverse=True)
+            return self.fs.p(Tu, float(self.pressures[0])), back.reshape(-1)
+        return self.p(T, lnp), np.arange(T.size)
+
     def exact_p(self, T: float, P: float) -> np.ndarray:
         """Property log-ratios (6,) from the fluid's source models."""
         return self.fs.exact_p(T, P)
@@ -81,6 +92,7 @@ def lower_envelope(
     temperature: np.ndarray | None = None,
     zoom_rounds: int = ZOOM_ROUNDS,
     log_pressure: np.ndarray | None = None,
+    indexed: bool = False,
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Minimise ``evaluate`` over the fluid state of every item: grid, then zoom.
 
@@ -101,6 +113,10 @@ def lower_envelope(
         Rounds of the zoom; each one shrinks the interval fourfold.
     log_pressure : (I,) array, optional
         A fixed log-pressure per item [ln Pa] (no search over pressure; a map's pressure axis).
+    indexed : bool
+        Call ``evaluate(items, table, index)`` instead, with the property rows given as distinct
+        rows ``table`` (U, 6) and ``index`` (N,) into them (``p == table[index]``): many items
+        share a state, and what depends on the state alone can be computed once per row.
 
     Returns
     -------
@@ -133,16 +149,19 @@ def lower_envelope(
         T = np.tile(gt, items.size) if temperature is None else np.repeat(temperature[items], ng)
         lp = np.tile(gp, items.size) if log_pressure is None else np.repeat(log_pressure[items], ng)
         if temperature is None and log_pressure is None:
-            p = np.tile(sp.p(gt, gp), (items.size, 1))
+            table = sp.p(gt, gp)
+            index = np.tile(np.arange(ng), items.size)
         else:
-            p = sp.p(T, lp)
-        parts.append((items, ng, it, T, lp, p))
+            table, index = sp.p_rows(T, lp)
+        parts.append((items, ng, it, T, lp, (table, index)))
         if temperature is None and grid.size > 1:
             step_t[items] = grid[1] - grid[0]
         if sp.variable_pressure and log_pressure is None:
             step_p[items] = sp.lnp[1] - sp.lnp[0]
     if parts:
-        values = evaluate(np.concatenate([x[2] for x in parts]), np.vstack([x[5] for x in parts]))
+        values = _call(
+            evaluate, np.concatenate([x[2] for x in parts]), [x[5] for x in parts], indexed
+        )
         start = 0
         for items, ng, _, T, lp, _ in parts:
             v = values[start : start + items.size * ng].reshape(items.size, ng)
@@ -174,10 +193,12 @@ def lower_envelope(
                         lo, hi = sp.lnp_range
                         lp = np.clip(best_lp[items, None] + step[items, None] * offsets, lo, hi)
                         T = np.broadcast_to(best_t[items, None], lp.shape)
-                    parts.append((items, T, lp, sp.p(T.ravel(), lp.ravel())))
-                values = evaluate(
+                    parts.append((items, T, lp, sp.p_rows(T.ravel(), lp.ravel())))
+                values = _call(
+                    evaluate,
                     np.concatenate([np.repeat(x[0], N_ZOOM) for x in parts]),
-                    np.vstack([x[3] for x in parts]),
+                    [x[3] for x in parts],
+                    indexed,
                 )
                 start = 0
                 for items, T, lp, _ in parts:
@@ -192,3 +213,20 @@ def lower_envelope(
                     best_lp[upd] = lp[rows, j][better]
                 step[live] *= 2.0 / (N_ZOOM - 1)
     return best_t, best_lp, best_v
+
+
+def _call(
+    evaluate: Evaluate,
+    items: np.ndarray,
+    rows: list[tuple[np.ndarray, np.ndarray]],
+    indexed: bool,
+) -> np.ndarray:
+    """``evaluate`` on the parts' property rows (distinct rows and index per part), stacked."""
+    if not indexed:
+        return evaluate(items, np.vstack([table[index] for table, index in rows]))
+    offsets = np.cumsum([0] + [table.shape[0] for table, _ in rows[:-1]])
+    return evaluate(
+        items,
+        np.vstack([table for table, _ in rows]),
+        np.concatenate([index + o for (_, index), o in zip(rows, offsets, strict=True)]),
+    )

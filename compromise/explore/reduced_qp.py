@@ -36,6 +36,7 @@ memory.
 from __future__ import annotations
 
 import math
+from dataclasses import dataclass
 
 import numpy as np
 
@@ -53,6 +54,31 @@ def tie_break_point(problem: Problem) -> np.ndarray:
     x0 = math.log(m_.horizontal_ratio[1])
     z0 = x0 + math.log(m_.distortion[0])
     return np.array([x0, z0, 0.5 * z0])
+
+
+@dataclass(frozen=True)
+class States:
+    """What the subproblems owe to the fluid state alone, per distinct state (rows).
+
+    ``betaT`` (K, U): the groups' residuals at ``t = 0``; ``c`` (U, k): ``(y_p - y0) D``, the
+    regularisation's pull; ``ok`` (U,): the other equalities and the fixed rows are met (and,
+    with one free variable, the interval is not empty). One free variable: the interval
+    ``[lo0, hi0]`` the rows leave. Two: the live rows' room ``g`` (U, L) within tolerance,
+    and along each row's line the point ``d n``, the segment ``[slo0, shi0]`` the other rows
+    leave and whether it is not empty (``edge``). The residuals are stored group-major, so
+    that a gather by state is one contiguous vector per group.
+    """
+
+    betaT: np.ndarray
+    c: np.ndarray
+    ok: np.ndarray
+    lo0: np.ndarray
+    hi0: np.ndarray
+    g: np.ndarray
+    d: np.ndarray
+    slo0: np.ndarray
+    shi0: np.ndarray
+    edge: np.ndarray
 
 
 class ReducedQP:
@@ -85,6 +111,13 @@ class ReducedQP:
         scale = np.maximum(1.0, np.linalg.norm(problem.G, axis=1))
         self.fixed_rows = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
         self.y0 = tie_break_point(problem)
+        if self.k == 2:  # each live row's line: unit normal n, direction u, and the rows along it
+            self.GD_live = self.GD[~self.fixed_rows]
+            self.norms = np.linalg.norm(self.GD_live, axis=1)
+            self.N = self.GD_live / self.norms[:, None]
+            self.U = np.column_stack([-self.N[:, 1], self.N[:, 0]])
+            self.Gn = self.N @ self.GD_live.T  # (L, L): row i's n against every live row
+            self.Gu = self.U @ self.GD_live.T
 
     @property
     def supported(self) -> bool:
@@ -98,7 +131,183 @@ class ReducedQP:
         reg = REGULARISATION * np.maximum(1.0, np.trace(H, axis1=1, axis2=2) / 3.0)
         Q = np.einsum("ki,sk,kj->sij", self.alpha, W, self.alpha)
         Q = Q + reg[:, None, None] * np.eye(self.k)
-        return Q, reg
+        if self.k != 2:
+            return Q, reg
+        # along each live row's line (for :meth:`values`): u'Qu, u'Qn, n'Qn (S, L)
+        QU, QN = Q @ self.U.T, Q @ self.N.T  # (S, 2, L)
+        uQu = np.einsum("sal,la->sl", QU, self.U)
+        uQn = np.einsum("sal,la->sl", QU, self.N)
+        nQn = np.einsum("sal,la->sl", QN, self.N)
+        return Q, reg, uQu, uQn, nQn
+
+    def states(self, p: np.ndarray, extra_e: np.ndarray | None = None) -> States:
+        """What the subproblems owe to the fluid state alone, for property rows ``p`` (U, 6)
+        (and the extra equalities' right-hand sides ``extra_e`` (U, j)): computed once per
+        distinct state, then shared by every weight sample (:meth:`values`)."""
+        pr = self.problem
+        r = p @ pr.B.T  # (U, K)
+        h = pr.h0 + p @ pr.P.T  # (U, m)
+        e = pr.e0 + p @ pr.Q.T
+        if self.extra.shape[0]:
+            e = np.concatenate([e, extra_e], axis=1)
+        yp = e[:, self.keep] @ self.pinv.T  # (U, 3)
+        ok = np.ones(p.shape[0], dtype=bool)
+        if self.others:
+            eo = e[:, self.others]
+            gap = np.abs(yp @ self.E[self.others].T - eo)
+            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+        Gyp = yp @ pr.G.T
+        g0 = h - Gyp  # the rows' room at t = 0
+        g = h + FEASIBILITY_TOL * (1.0 + np.abs(h)) - Gyp  # within tolerance
+        if self.fixed_rows.any():
+            ok &= np.all(g[:, self.fixed_rows] >= 0.0, axis=1)
+        beta = yp @ pr.A.T + r  # the residuals at t = 0
+        c = (yp - self.y0) @ self.D  # the regularisation's pull at t = 0, per unit reg
+        U = p.shape[0]
+        empty = np.zeros((U, 0))
+        lo0 = hi0 = np.zeros(U)
+        g_live = d = slo0 = shi0 = empty
+        edge = np.zeros((U, 0), dtype=bool)
+        live = ~self.fixed_rows
+        if self.k == 1:
+            a = self.GD[:, 0]
+            up, down = live & (a > 0), live & (a < 0)
+            inf = np.full(U, np.inf)
+            hi0 = np.min(g0[:, up] / a[up], axis=1) if up.any() else inf
+            hi = np.min(g[:, up] / a[up], axis=1) if up.any() else inf
+            lo0 = np.max(g0[:, down] / a[down], axis=1) if down.any() else -inf
+            lo = np.max(g[:, down] / a[down], axis=1) if down.any() else -inf
+            ok &= lo <= hi
+        elif self.k == 2:
+            g_live = g[:, live]
+            d = g0[:, live] / self.norms  # each row's line: the point d n nearest the origin
+            # for every line i, the other rows j along it: room (U, i, j) and direction Gu (i, j)
+            room0 = g0[:, None, live] - d[:, :, None] * self.Gn
+            room = g_live[:, None, :] - d[:, :, None] * self.Gn
+            pos, neg = self.Gu > PARALLEL, self.Gu < -PARALLEL
+            par = ~pos & ~neg
+            with np.errstate(divide="ignore", invalid="ignore"):
+                up0, up1 = room0 / self.Gu, room / self.Gu
+            shi0 = np.min(np.where(pos, up0, np.inf), axis=2)
+            shi = np.min(np.where(pos, up1, np.inf), axis=2)
+            slo0 = np.max(np.where(neg, up0, -np.inf), axis=2)
+            slo = np.max(np.where(neg, up1, -np.inf), axis=2)
+            edge = (slo <= shi) & np.all(~par | (room >= 0.0), axis=2)
+        return States(
+            np.ascontiguousarray(beta.T),
+            c,
+            ok,
+            lo0,
+            hi0,
+            g_live,
+            d,
+            slo0,
+            shi0,
+            edge,
+        )
+
+    def values(
+        self,
+        W: np.ndarray,
+        prep: tuple[np.ndarray, ...],
+        states: States,
+        sample: np.ndarray,
+        state: np.ndarray,
+    ) -> np.ndarray:
+        """Weighted mismatch (N,) of the subproblems of samples ``sample`` (N,; rows of ``W``
+        (S, K) and ``prep``) at states ``state`` (N,; rows of ``states``); ``inf`` where
+        infeasible. The same optimum as :meth:`solve`, from the shared state rows.
+
+        Every quantity is gathered as one contiguous vector per group (or row), and the sums
+        over groups are written out term by term in the groups' order."""
+        Q, reg = prep[0], prep[1]
+        K = W.shape[1]
+        WT = np.ascontiguousarray(W.T)
+        Wn = [WT[i].take(sample) for i in range(K)]
+        beta = [states.betaT[i].take(state) for i in range(K)]
+        wb = [Wn[i] * beta[i] for i in range(K)]
+        ok = states.ok.take(state)
+        if self.k == 0:
+            res = beta
+        elif self.k == 1:
+            a = self.alpha[:, 0]
+            b = _dot(wb, a) + reg.take(sample) * states.c[:, 0].take(state)
+            t = -b / Q[:, 0, 0].take(sample)
+            t = np.minimum(np.maximum(t, states.lo0.take(state)), states.hi0.take(state))
+            res = [beta[i] + t * a[i] for i in range(K)]
+        else:
+            t0, t1, inside = self._two_values(prep, wb, reg, states, sample, state)
+            ok &= inside
+            res = [beta[i] + (t0 * self.alpha[i, 0] + t1 * self.alpha[i, 1]) for i in range(K)]
+        J = Wn[0] * (res[0] * res[0])
+        for i in range(1, K):
+            J += Wn[i] * (res[i] * res[i])
+        J[~ok] = np.inf
+        return J
+
+    def _two_values(
+        self,
+        prep: tuple[np.ndarray, ...],
+        wb: list[np.ndarray],
+        reg: np.ndarray,
+        states: States,
+        sample: np.ndarray,
+        state: np.ndarray,
+    ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """:meth:`_two` from the shared state rows: the point ``t`` (two vectors (N,)) and
+        whether the subproblem is feasible."""
+        Q = prep[0]
+        rg = reg.take(sample)
+        b0 = _dot(wb, self.alpha[:, 0]) + rg * states.c[:, 0].take(state)
+        b1 = _dot(wb, self.alpha[:, 1]) + rg * states.c[:, 1].take(state)
+        q00, q01, q11 = (Q[:, i, j].take(sample) for i, j in ((0, 0), (0, 1), (1, 1)))
+        det = q00 * q11 - q01 * q01
+        t0 = (q01 * b1 - q11 * b0) / det
+        t1 = (q01 * b0 - q00 * b1) / det
+        L = self.GD_live.shape[0]
+        GD = self.GD_live
+        violated = t0[:, None] * GD[:, 0] + t1[:, None] * GD[:, 1] > states.g[state]  # (N, L)
+        found = ~violated.any(axis=1)
+        out = np.flatnonzero(~found)
+        if out.size == 0:
+            return t0, t1, found
+        # as in _two: along each violated row's line, the minimiser clipped to its segment;
+        # computed for the (subproblem, row) pairs where that segment is not empty
+        uQu, uQn, nQn = prep[2], prep[3], prep[4]  # (S, L)
+        every = out.size == found.size
+        so, uo = (sample, state) if every else (sample[out], state[out])
+        pi, pj = np.nonzero((violated if every else violated[out]) & states.edge[uo])
+        ks = so[pi] * L + pj  # flat indices into (S, L) and (U, L)
+        ku = uo[pi] * L + pj
+        rows = pi if every else out[pi]
+        b0o, b1o = b0.take(rows), b1.take(rows)
+        un0, un1, nn0, nn1 = (
+            self.U[:, 0].take(pj),
+            self.U[:, 1].take(pj),
+            self.N[:, 0].take(pj),
+            self.N[:, 1].take(pj),
+        )
+        ub = b0o * un0 + b1o * un1
+        nb = b0o * nn0 + b1o * nn1
+        d = states.d.take(ku)
+        uqn, uqu = uQn.take(ks), uQu.take(ks)
+        sv = np.minimum(
+            np.maximum(-(d * uqn + ub) / uqu, states.slo0.take(ku)), states.shi0.take(ku)
+        )
+        psi = d * d * nQn.take(ks) + 2.0 * d * sv * uqn + sv * sv * uqu + 2.0 * (d * nb + sv * ub)
+        # the least psi of each subproblem (the first row of equals, as _two's strict "<")
+        flat = pi * L + pj  # increasing: the pairs are in row-major order
+        grid = np.full(out.size * L, np.inf)
+        grid[flat] = psi
+        chosen = np.arange(out.size) * L + np.argmin(grid.reshape(out.size, L), axis=1)
+        hit = np.zeros(out.size, dtype=bool)
+        hit[pi] = True
+        k = np.searchsorted(flat, chosen[hit])
+        where = out[hit]
+        t0[where] = d[k] * nn0[k] + sv[k] * un0[k]
+        t1[where] = d[k] * nn1[k] + sv[k] * un1[k]
+        found[out] = hit
+        return t0, t1, found
 
     def solve(
         self,
@@ -110,7 +319,7 @@ class ReducedQP:
         """Optimal ``y`` (S, R, 3) and weighted mismatch (S, R) for weights ``W`` (S, K) and
         property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible (``y`` then nan)."""
         pr = self.problem
-        Q, reg = prep
+        Q, reg = prep[0], prep[1]
         S, R = p.shape[0], p.shape[1]
         p2 = p.reshape(S * R, -1)  # products over all states at once (2-D, one BLAS call)
         r = p2 @ pr.B.T  # (S R, K)
@@ -227,3 +436,11 @@ class ReducedQP:
             t[upd] = d[better, None] * n + sv[better, None] * u
             found[cols] |= feasible
         return t.reshape(S, R, 2), found.reshape(S, R)
+
+
+def _dot(terms: list[np.ndarray], coef: np.ndarray) -> np.ndarray:
+    """``sum_i terms[i] * coef[i]``, term by term in order."""
+    out = terms[0] * coef[0]
+    for i in range(1, len(terms)):
+        out += terms[i] * coef[i]
+    return out

@@ -26,7 +26,9 @@ A sample changes only the weights, so only the Hessian of the convex subproblems
 (:mod:`compromise.solving.problem`) changes. Where the equality rows leave at most two of the
 three log-ratios free (a group kept exactly, a fixed preferred ratio, a fixed distortion: every
 bundled case), each subproblem is solved in closed form in the equalities' null space
-(:class:`~compromise.explore.reduced_qp.ReducedQP`). Otherwise the KKT systems of every sample
+(:class:`~compromise.explore.reduced_qp.ReducedQP`): what depends on the fluid state alone
+(the residuals at the equalities' point, the interval or polygon the rows leave) is computed
+once per distinct state and shared by every sample. Otherwise the KKT systems of every sample
 and candidate active set are inverted in one batch, and every subproblem of a sample is then a
 matrix product (:class:`WeightedQP`), as in :mod:`compromise.solving.qp`. Both give the one
 optimum of a strictly convex QP; their objectives agree to rounding, and with a fixed seed the
@@ -64,7 +66,8 @@ from compromise.solving.problem import Problem, build_problem
 from compromise.solving.qp import FEASIBILITY_TOL, independent_rows
 from compromise.solving.threads import one_blas_thread
 
-CHUNK = 250  # samples per batch
+CHUNK = 250  # samples per batch of the enumeration (its KKT maps are per sample)
+REDUCED_CHUNK = 2000  # samples per batch of the reduced solver (its state rows are shared)
 N_TEMPERATURES = 12
 ZOOM_ROUNDS = 3
 REFINE_BAND = 1e-4  # [-] candidates this close to a sample's best (plus 1e-3 of it) are refined
@@ -317,17 +320,19 @@ def weight_sensitivity(
     )[0]
     settled = np.isfinite(J0) & (J0 * spread <= ZERO_BAND)
     nominal: tuple[np.ndarray, ...] | None = None
-    for a in range(0, all_f.shape[0], CHUNK):
-        f = all_f[a : a + CHUNK]
+    y, T, P, fl, Jo = _unrestricted(free, problem.W * all_f[:1], spaces)
+    if math.isfinite(Jo[0]) and Jo[0] * spread <= ZERO_BAND:
+        # likewise the unrestricted optimum: every sample's optimum matches every weighted
+        # group, and the case's own optimum is one of them
+        nominal = (y[0], T[0], P[0], fl[0])
+    chunk = _chunk(free, fixed)
+    for a in range(0, all_f.shape[0], chunk):
+        f = all_f[a : a + chunk]
         W = problem.W * f
         J = _restricted(free, fixed, W, spaces, ratios, only=~settled)
         J[:, settled] = J0[settled] * np.max(f, axis=1)[:, None]
         if nominal is None:
             y, T, P, fl, Jo = _unrestricted(free, W, spaces)
-            if a == 0 and math.isfinite(Jo[0]) and Jo[0] * spread <= ZERO_BAND:
-                # likewise the unrestricted optimum: every sample's optimum matches every
-                # weighted group, and the case's own optimum is one of them
-                nominal = (y[0], T[0], P[0], fl[0])
         else:
             n = W.shape[0]
             y, T, P = np.tile(nominal[0], (n, 1)), np.full(n, nominal[1]), np.full(n, nominal[2])
@@ -348,6 +353,13 @@ def weight_sensitivity(
     return assemble(
         case, spread, seed, problem.objective_groups, factors, tallied, ranges, optima, fl
     )
+
+
+def _chunk(free: WeightedQP | ReducedQP, fixed: WeightedQP | ReducedQP | None) -> int:
+    """Samples per batch: the enumeration's memory grows with the samples, the reduced
+    solver's state rows are shared by them."""
+    reduced = isinstance(free, ReducedQP) and (fixed is None or isinstance(fixed, ReducedQP))
+    return REDUCED_CHUNK if reduced else CHUNK
 
 
 def _labels(case: Case, ratios: list[float | None]) -> list[str]:
@@ -375,8 +387,9 @@ def _refine(
     if rows.size == 0:
         return J
     out = J.copy()
-    for a in range(0, rows.size, CHUNK):
-        r = rows[a : a + CHUNK]
+    chunk = _chunk(free, fixed)
+    for a in range(0, rows.size, chunk):
+        r = rows[a : a + chunk]
         fine = _restricted(
             free, fixed, W[r], spaces, ratios, zoom_rounds=REFINE_ZOOM_ROUNDS, only=busy
         )
@@ -384,11 +397,26 @@ def _refine(
     return out
 
 
-def _blocks(items: np.ndarray, n: int) -> tuple[np.ndarray, int]:
-    """Samples of a batch of items (sample-major) and the rows per sample."""
-    s = items // n
-    u = np.unique(s)
-    return u, items.size // u.size
+def _by_sample(
+    qp: WeightedQP,
+    W: np.ndarray,
+    prep: tuple[np.ndarray, ...],
+    sample: np.ndarray,
+    p: np.ndarray,
+    extra_e: np.ndarray | None = None,
+) -> np.ndarray:
+    """Weighted mismatch (N,) of subproblems of samples ``sample`` (N,) at property rows
+    ``p`` (N, 6), by :meth:`WeightedQP.solve` on the rows grouped by sample (every sample of a
+    batch has as many rows: whether a candidate is feasible does not depend on the weights)."""
+    order = np.argsort(sample, kind="stable")
+    u = np.unique(sample)
+    R = sample.size // u.size
+    sub = prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
+    ex = None if extra_e is None else extra_e[order].reshape(u.size, R, -1)
+    J = qp.solve(W[u], sub, p[order].reshape(u.size, R, -1), ex)[1].ravel()
+    out = np.empty_like(J)
+    out[order] = J
+    return out
 
 
 def _restricted(
@@ -410,18 +438,28 @@ def _restricted(
     if cands.size == 0:
         return out
     prep = qp.prepare(W)
-    n_c = cands.size
+    n_c, n_r = cands.size, len(ratios)
     lr = np.array([0.0 if r is None else math.log(r) for r in ratios])
 
-    def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
-        u, R = _blocks(items, n_c)
-        ex = lr[cands[items % n_c] % len(ratios)].reshape(u.size, R, 1) if fixed else None
-        sub = prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
-        return qp.solve(W[u], sub, p.reshape(u.size, R, -1), ex)[1].ravel()
+    def evaluate(items: np.ndarray, table: np.ndarray, index: np.ndarray) -> np.ndarray:
+        sample, ratio = items // n_c, cands[items % n_c] % n_r
+        if isinstance(qp, ReducedQP):
+            # every (state, ratio) pair once, then shared by the samples
+            rows = np.repeat(table, n_r, axis=0) if fixed else table
+            ex = np.tile(lr, table.shape[0])[:, None] if fixed else None
+            st = qp.states(rows, ex)
+            return qp.values(W, prep, st, sample, index * n_r + ratio if fixed else index)
+        ex = lr[ratio][:, None] if fixed else None
+        return _by_sample(qp, W, prep, sample, table[index], ex)
 
     fluid = np.tile(cands // len(ratios), W.shape[0])
     _, _, J = lower_envelope(
-        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=zoom_rounds
+        spaces,
+        fluid,
+        evaluate,
+        n_temperatures=N_TEMPERATURES,
+        zoom_rounds=zoom_rounds,
+        indexed=True,
     )
     out[:, cands] = J.reshape(W.shape[0], n_c)
     return out
@@ -438,13 +476,19 @@ def _unrestricted(
     def sub(u: np.ndarray) -> tuple[np.ndarray, ...]:
         return prep if u.size == W.shape[0] else tuple(x[u] for x in prep)
 
-    def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
-        u, R = _blocks(items, F)
-        return qp.solve(W[u], sub(u), p.reshape(u.size, R, -1))[1].ravel()
+    def evaluate(items: np.ndarray, table: np.ndarray, index: np.ndarray) -> np.ndarray:
+        if isinstance(qp, ReducedQP):
+            return qp.values(W, prep, qp.states(table), items // F, index)
+        return _by_sample(qp, W, prep, items // F, table[index])
 
     fluid = np.tile(np.arange(F), W.shape[0])
     T, lnp, J = lower_envelope(
-        spaces, fluid, evaluate, n_temperatures=N_TEMPERATURES, zoom_rounds=ZOOM_ROUNDS
+        spaces,
+        fluid,
+        evaluate,
+        n_temperatures=N_TEMPERATURES,
+        zoom_rounds=ZOOM_ROUNDS,
+        indexed=True,
     )
     J = J.reshape(W.shape[0], F)
     best = winners_of(J)

@@ -22,7 +22,11 @@ whose log is linear. To that objective a secondary term ``delta x (the other axe
 (``r^2`` for a group, the log for a quantity) with a tiny positive ``delta``: the minimiser of
 the sum subject to the bounds is then Pareto optimal, never merely weakly so (Mavrotas 2009).
 Each such subproblem is a convex QP, solved exactly by :class:`compromise.solving.qp.SmallQP`, many
-epsilon values and fluid states in one batch (only the right-hand sides differ). As in the
+epsilon values and fluid states in one batch (only the right-hand sides differ). Where an exact
+group leaves at most two log-ratios free, the sweeps solve them in the equalities' null space
+instead (:class:`compromise.explore.front_qp.FrontQP`): the optimum without the epsilon rows
+once per distinct fluid state, then each epsilon value's in closed form; the designs of the
+front are re-solved by the enumeration. As in the
 solver, a tie-break ``1e-10 x |y - y0|^2`` keeps the Hessian positive definite; when every axis
 is a quantity the subproblem is an LP, and the tie-break moves its optimum by at most
 ``1e-10 x (diameter of the feasible set in log-ratios)^2``, about 1e-8. The range of each
@@ -64,6 +68,7 @@ from compromise.errors import CaseError
 from compromise.explore.axes import Axis, axes_for, state_spaces
 from compromise.explore.envelope import StateSpace, lower_envelope
 from compromise.explore.front import Front, FrontPoint
+from compromise.explore.front_qp import FrontQP
 from compromise.explore.pareto import (
     TOL,
     gd_plus,
@@ -171,6 +176,27 @@ class Scalarised:
                 row += 2
         self.G, self.h0, self.P = np.vstack(G), np.concatenate(h0), np.vstack(P)
         self.qp = SmallQP(self.H, self.G, problem.E)
+        fast = FrontQP(
+            self.H,
+            F,
+            self.f0,
+            self.G,
+            self.h0,
+            self.P,
+            problem.E,
+            problem.e0,
+            problem.Q,
+            self.slots,
+        )
+        #: the null-space solver sharing the fluid state (None: the enumeration only)
+        self.fast = fast if fast.supported else None
+        # the objective's terms as rows: values y @ Ta.T + p @ Tb.T (+ Tc), weights Tw
+        terms_ = [(w, a, b, 0.0) for w, a, b in quad] + lin
+        self._Ta = np.array([t[1] for t in terms_]).reshape(len(terms_), nd)
+        self._Tb = np.array([t[2] for t in terms_]).reshape(len(terms_), npr)
+        self._Tc = np.array([t[3] for t in terms_], dtype=float)
+        self._Tw = np.array([t[0] for t in terms_], dtype=float)
+        self._nq = len(quad)
 
     def solve(self, p: np.ndarray, eps: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
         """Optimal ``y`` (N, 3) and scalarised objective (N,) for property log-ratios ``p``
@@ -191,6 +217,21 @@ class Scalarised:
         for w, a, b, c0 in self.lin:
             J += w * (y @ a + p @ b + c0)
         return y, np.where(np.isfinite(J), J, np.inf)
+
+    def solve_indexed(self, table: np.ndarray, index: np.ndarray, eps: np.ndarray) -> np.ndarray:
+        """The scalarised objective (N,) of :meth:`solve` for property rows ``table[index]``
+        (distinct rows ``table`` (U, 6), ``index`` (N,)) and epsilon values ``eps`` (N, c),
+        by the null-space solver: what depends on the state alone once per distinct row."""
+        assert self.fast is not None
+        st = self.fast.states(table)
+        y, ok = self.fast.solve(st, index, eps)
+        const = table @ self._Tb.T + self._Tc  # (U, terms)
+        v = y @ self._Ta.T + const[index]  # (N, terms)
+        nq = self._nq
+        J = np.sum(self._Tw[:nq] * v[:, :nq] ** 2, axis=1) + np.sum(
+            self._Tw[nq:] * v[:, nq:], axis=1
+        )
+        return np.where(ok & np.isfinite(J), J, np.inf)
 
 
 def check_bounded(scal: Scalarised, axes: list[Axis], primary: int, case: Case) -> None:
@@ -254,10 +295,14 @@ class _Tracer:
         F, K = len(self.spaces), eps.shape[0]
         fluid, kk = np.repeat(np.arange(F), K), np.tile(np.arange(K), F)
 
-        def evaluate(items: np.ndarray, p: np.ndarray) -> np.ndarray:
-            return sc.solve(p, eps[kk[items]])[1]
+        def evaluate(items: np.ndarray, table: np.ndarray, index: np.ndarray) -> np.ndarray:
+            if sc.fast is not None:
+                return sc.solve_indexed(table, index, eps[kk[items]])
+            return sc.solve(table[index], eps[kk[items]])[1]
 
-        T, lnp, J = lower_envelope(self.spaces, fluid, evaluate, n_temperatures=self.n_t)
+        T, lnp, J = lower_envelope(
+            self.spaces, fluid, evaluate, n_temperatures=self.n_t, indexed=True
+        )
         return _Sweep(fluid, kk, T, lnp, J, eps)
 
     def p(self, sw: _Sweep, items: np.ndarray, exact: bool) -> np.ndarray:

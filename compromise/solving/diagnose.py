@@ -142,7 +142,6 @@ def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = 
     k = int(np.argmin(viol))
     h, e = rhs[k]
     # deletion filter over inequality rows then equality rows
-    keep_i = list(range(m))
     keep_e = list(range(q))
     # rows sharing a normal act only through the tightest kept one: dropping a row that is not
     # the tightest of its kind (or ties with another kept row) leaves the system, and so its
@@ -156,21 +155,25 @@ def diagnose(problem: Problem, states: dict[str, FluidStates], *, relax: bool = 
     # of one per row, and the same irreducible set as testing every row
     support: set[int] | None = None
     use_certificate = m > CERTIFICATE_ROWS
+    kept = np.ones(m, dtype=bool)  # keep_i as a mask (row i is kept when it is reached)
     for i in range(m):
-        trial = [j for j in keep_i if j != i]
-        if i in keep_i:
-            same = [j for j in trial if kind[j] == kind[i]]
-            if same and min(h[j] for j in same) <= h[i]:
-                keep_i = trial
-                continue
-        if use_certificate and support is None:
-            support = _certificate_support(G, h, E, e, keep_i, keep_e)
-        if support is not None and i not in support:
-            keep_i = trial
+        same = kept & (kind == kind[i])
+        same[i] = False
+        if same.any() and np.min(h[same]) <= h[i]:
+            kept[i] = False
             continue
-        if not feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
-            keep_i = trial
+        if use_certificate and support is None:
+            support = _certificate_support(G, h, E, e, np.flatnonzero(kept).tolist(), keep_e)
+        if support is not None and i not in support:
+            kept[i] = False
+            continue
+        kept[i] = False
+        trial = np.flatnonzero(kept)
+        if feasible(G[trial], h[trial], E[keep_e], e[keep_e]):
+            kept[i] = True
+        else:
             support = None  # the certificate used row i: find another for what is left
+    keep_i = np.flatnonzero(kept).tolist()
     for i in range(q):
         trial = [j for j in keep_e if j != i]
         if not feasible(G[keep_i], h[keep_i], E[trial], e[trial]):

@@ -327,6 +327,7 @@ class GranularProblem:
                     zp,
                     Row("group", n, "max", g.max, None, bound_key(g, "max")),
                 )
+        condition_values = [case.values(i) for i in range(len(case.conditions))]
         for lim in case.limits:
             if lim.quantity == sed.density:
                 raise CaseError(
@@ -335,7 +336,7 @@ class GranularProblem:
                     file=case.path,
                     key=f"limits.{lim.quantity}",
                 )
-            vals = np.array([case.values(i)[lim.quantity] for i in range(len(case.conditions))])
+            vals = np.array([v[lim.quantity] for v in condition_values])
             key = f"limits.{lim.quantity}.{lim.kind}"
             if lim.quantity == sed.grain:
                 normal, prop = np.array([0.0, 0.0, 0.0, 1.0]), zp

@@ -272,9 +272,10 @@ def build_problem(case: Case) -> Problem:
                 ),
             )
 
+    condition_values = [case.values(i) for i in range(len(case.conditions))]
     for lim in case.limits:
         q = case.quantities[lim.quantity]
-        vals = np.array([case.values(i)[lim.quantity] for i in range(len(case.conditions))])
+        vals = np.array([v[lim.quantity] for v in condition_values])
         s = q.scaling
         used.update(PROPERTY_NAMES[i] for i in np.flatnonzero(s[nd:]))
         key = f"limits.{lim.quantity}.{lim.kind}"

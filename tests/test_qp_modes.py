@@ -80,3 +80,34 @@ def test_a_case_with_fifty_distinct_limit_normals(monkeypatch: pytest.MonkeyPatc
     assert dual.design is not None and enum.design is not None
     assert_allclose(dual.design.logs, enum.design.logs, rtol=1e-7, atol=1e-8)
     assert_allclose(dual.objective, enum.objective, rtol=1e-8)
+
+
+def test_other_hessians_give_what_a_new_solver_gives() -> None:
+    """``SmallQP.with_hessians`` reuses the candidate active sets of the rows and inverts the
+    KKT systems of many Hessians in one batch (the granular sensitivity's weight samples): every
+    answer and multiplier is the one a solver built afresh for that Hessian gives, bit for bit
+    (common practice: a batched inverse is the same LAPACK solve per matrix)."""
+    rng = np.random.default_rng(8)
+    g = rng.normal(size=(1, 4))
+    G = np.vstack([rng.normal(size=(7, 4)), g, -g])  # the last two: a slab, empty when h7 + h8 < 0
+    E = rng.normal(size=(1, 4))
+    Hs = []
+    for _ in range(5):
+        A = rng.normal(size=(4, 4))
+        Hs.append(A @ A.T + 0.3 * np.eye(4))
+    f = rng.normal(size=(30, 4))
+    h = rng.normal(size=(30, 9)) + rng.uniform(0.0, 3.0, size=(30, 1))
+    h[:10, 8] = -h[:10, 7] - 0.5
+    e = rng.normal(size=(30, 1))
+    shared = qp.SmallQP(Hs[0], G, E).with_hessians(np.array(Hs))
+    for H, other in zip(Hs, shared, strict=True):
+        fresh = qp.SmallQP(H, G, E)
+        a, b = fresh.solve(f, h, e), other.solve(f, h, e)
+        assert a.feasible.any() and (~a.feasible).any()
+        np.testing.assert_array_equal(a.y, b.y)
+        np.testing.assert_array_equal(a.objective, b.objective)
+        i = int(np.flatnonzero(a.feasible)[0])
+        np.testing.assert_array_equal(
+            fresh.multipliers(int(a.active[i]), f[i], h[i], e[i]),
+            other.multipliers(int(b.active[i]), f[i], h[i], e[i]),
+        )

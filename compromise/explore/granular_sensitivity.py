@@ -9,6 +9,11 @@ weighted mismatch wins the sample (candidates within :data:`TIE_ABS` of each oth
 unrestricted optimum of a sample is the winner's design, whose ratios, temperature and grain
 size give the ranges.
 
+The rows are the same for every sample (only the weights, and so the Hessian, change): the
+candidate active sets of :class:`~compromise.solving.qp.SmallQP` are found once, and the KKT
+systems of :data:`CHUNK` samples inverted in one batch (:meth:`SmallQP.with_hessians`, the same
+numbers as a solver built per sample).
+
 Two simplifications against the solver's own answer (docs/case-format.md says so too): the
 temperature is a grid of :data:`N_GRID` points (no zoom), and the moving-bed floor (model
 Shields at or above its critical value) is held at the critical value of the nominal
@@ -36,6 +41,7 @@ from compromise.solving.grid import REGULARISATION
 from compromise.solving.qp import SmallQP
 
 N_GRID = 49  # temperatures per fluid (0.25 K over a 12 K range)
+CHUNK = 100  # samples whose KKT systems are inverted in one batch
 
 
 def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> Sensitivity:
@@ -69,11 +75,21 @@ def granular_sensitivity(case: Case, spread: float, samples: int, seed: int) -> 
     J = np.full((S_all, n_c), np.inf)
     best_u = np.full((S_all, n_c, N_U), np.nan)  # each candidate's best design per sample
     best_T = np.full((S_all, n_c), np.nan)
+    Hs = np.empty((all_f.shape[0], N_U, N_U))
+    regs = np.empty(all_f.shape[0])
     for s, fac in enumerate(all_f):
         W = gp.W * fac
         H = 2.0 * (gp.A.T * W) @ gp.A
-        reg = REGULARISATION * max(1.0, float(np.trace(H)) / N_U)
-        qp = SmallQP(H + 2.0 * reg * np.eye(N_U), gp.G, gp.E)
+        regs[s] = REGULARISATION * max(1.0, float(np.trace(H)) / N_U)
+        Hs[s] = H + 2.0 * regs[s] * np.eye(N_U)
+    base = SmallQP(Hs[0], gp.G, gp.E)  # the candidate active sets, shared by every sample
+    qps: list[SmallQP] = []
+    for s, fac in enumerate(all_f):
+        if s % CHUNK == 0:  # the samples' KKT systems inverted by batches
+            qps = base.with_hessians(Hs[s : s + CHUNK])
+        qp = qps[s % CHUNK]
+        W = gp.W * fac
+        reg = regs[s]
         f_lin = 2.0 * (cA * W) @ gp.A - 2.0 * reg * u0
         batch = qp.solve(f_lin, h, e)
         r = batch.y @ gp.A.T + cA

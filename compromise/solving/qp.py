@@ -24,6 +24,7 @@ package, used past :data:`MAX_ENUMERATED_ROWS` distinct rows), from memory.
 
 from __future__ import annotations
 
+import copy
 import itertools
 from dataclasses import dataclass, field
 
@@ -109,12 +110,11 @@ class SmallQP:
         if not self.enumerated:
             return
         free = n - len(eq_keep)
-        r = n + q + m  # full right-hand side: [-f, e, h]
         ne = len(eq_keep)
         Ek = self.E[eq_keep]
-        subsets: list[tuple[int, ...]] = []
-        maps: list[np.ndarray] = []
-        mults: list[np.ndarray] = []
+        # the candidate active sets (those whose rows, with the kept equalities, are
+        # independent) depend on the rows alone; their KKT maps on the Hessian too
+        self._sets: list[tuple[int, np.ndarray, np.ndarray]] = []  # (k, combos, C)
         for k in range(0, min(free, m) + 1):
             tuples = list(itertools.combinations(range(m), k))
             combos = np.array(tuples, dtype=int).reshape(len(tuples), k)
@@ -128,30 +128,82 @@ class SmallQP:
                 combos, C = combos[ok], C[ok]
             if len(combos) == 0:
                 continue
+            self._sets.append((k, combos, C))
+        self.subsets = [tuple(int(v) for v in c) for _, combos, _ in self._sets for c in combos]
+        self._kkt()
+
+    def with_hessians(self, Hs: np.ndarray) -> list[SmallQP]:
+        """The same rows with other Hessians ``Hs`` (S, n, n): the candidate active sets are
+        reused, and the KKT systems of all of them inverted in one batch (each one the same
+        numbers as in a new :class:`SmallQP`)."""
+        Hs = np.asarray(Hs, dtype=float)
+        out = []
+        parts = self._kkt_batch(Hs) if self.enumerated else None
+        for s in range(Hs.shape[0]):
+            other = copy.copy(self)
+            other.H = Hs[s]
+            if parts is not None:
+                other._set_kkt([(k, combos, M[s]) for k, combos, M in parts])
+            out.append(other)
+        return out
+
+    def _kkt(self) -> None:
+        """The map from the right-hand side ``[-f, e, h]`` to every candidate's point."""
+        parts = self._kkt_batch(self.H[None])
+        self._set_kkt([(k, combos, M[0]) for k, combos, M in parts])
+
+    def _kkt_batch(self, Hs: np.ndarray) -> list[tuple[int, np.ndarray, np.ndarray]]:
+        """Per candidate size ``k``: the candidates and their maps (S, ns, n + nc, r) for the
+        Hessians ``Hs`` (S, n, n)."""
+        n, m, q = self.n, self.m, self.q
+        eq_keep = self.eq_keep
+        ne = len(eq_keep)
+        r = n + q + m  # full right-hand side: [-f, e, h]
+        S = Hs.shape[0]
+        parts = []
+        for k, combos, C in self._sets:
+            nc = ne + k
             ns = len(combos)
-            K = np.zeros((ns, n + nc, n + nc))
-            K[:, :n, :n] = self.H
-            K[:, :n, n:] = C.transpose(0, 2, 1)
-            K[:, n:, :n] = C
+            K = np.zeros((S, ns, n + nc, n + nc))
+            K[:, :, :n, :n] = Hs[:, None]
+            K[:, :, :n, n:] = C.transpose(0, 2, 1)
+            K[:, :, n:, :n] = C
             Kinv = np.linalg.inv(K)
             # scatter the columns of Kinv into the full right-hand-side layout [-f, e, h]
-            M = np.zeros((ns, n + nc, r))
-            M[:, :, :n] = Kinv[:, :, :n]
+            M = np.zeros((S, ns, n + nc, r))
+            M[..., :n] = Kinv[..., :n]
             for i, j in enumerate(eq_keep):
-                M[:, :, n + j] = Kinv[:, :, n + i]
+                M[..., n + j] = Kinv[..., n + i]
             rows = np.arange(ns)
             for i in range(k):
-                M[rows, :, n + q + combos[:, i]] = Kinv[:, :, n + ne + i]
-            L = np.zeros((ns, m, r))
-            for i in range(k):
-                L[rows, combos[:, i], :] = M[:, n + ne + i, :]
-            subsets.extend(tuple(int(v) for v in c) for c in combos)
-            maps.append(M[:, :n, :])
-            mults.append(L)
-        self.subsets = subsets
-        allmaps = np.concatenate(maps, axis=0)  # (s, n, r)
-        self._maps = allmaps.reshape(len(subsets) * n, r)
-        self._mults = np.concatenate(mults, axis=0)
+                # advanced indices around a slice come first: (ns, S, n + nc)
+                M[:, rows, :, n + q + combos[:, i]] = Kinv[..., n + ne + i].transpose(1, 0, 2)
+            parts.append((k, combos, M))
+        return parts
+
+    def _set_kkt(self, parts: list[tuple[int, np.ndarray, np.ndarray]]) -> None:
+        n, r = self.n, self.n + self.q + self.m
+        self._kkt_parts = parts
+        allmaps = np.concatenate([M[:, :n, :] for _, _, M in parts], axis=0)  # (s, n, r)
+        self._maps = allmaps.reshape(len(self.subsets) * n, r)
+        self._mults_cache: np.ndarray | None = None
+
+    @property
+    def _mults(self) -> np.ndarray:
+        """Per candidate, the map from the right-hand side to the inequality multipliers
+        (built on first use: only the binding costs need it)."""
+        if self._mults_cache is None:
+            n, m, ne = self.n, self.m, len(self.eq_keep)
+            r = n + self.q + m
+            mults = []
+            for k, combos, M in self._kkt_parts:
+                rows = np.arange(len(combos))
+                L = np.zeros((len(combos), m, r))
+                for i in range(k):
+                    L[rows, combos[:, i], :] = M[:, n + ne + i, :]
+                mults.append(L)
+            self._mults_cache = np.concatenate(mults, axis=0)
+        return self._mults_cache
 
     def solve(self, f: np.ndarray, h: np.ndarray, e: np.ndarray) -> QPBatch:
         """Solve the subproblems with linear terms ``f`` (N, n), ``h`` (N, m), ``e`` (N, q)."""

@@ -181,6 +181,21 @@ def test_us_units_in_the_tables(tmp_path: Path) -> None:
     assert "| reach | ft | 9843 | 9843 | 9843 |" in md
 
 
+def test_us_units_in_the_figures(tmp_path: Path) -> None:
+    """A case with display_units = "us": the front's lifted pump limit reads the case file's own
+    3 ft^3/s, the map's temperature axis is in degF (cases/culvert_us.toml)."""
+    case = ROOT / "cases" / "culvert_us.toml"
+    res = runner.invoke(
+        app, ["report", str(case), "-o", str(tmp_path)], env={"SOURCE_DATE_EPOCH": EPOCH}
+    )
+    assert res.exit_code == 0, res.output
+    front = (tmp_path / "figure-front.svg").read_text(encoding="utf-8").replace("&lt;", "<")
+    assert "case limit: discharge <= 3 cfs" in front and "m^3/s" not in front
+    figure_map = (tmp_path / "figure-map.svg").read_text(encoding="utf-8")
+    assert "model fluid temperature [degF]" in figure_map and "degC" not in figure_map
+    assert "The figures show SI units" not in (tmp_path / "report.md").read_text(encoding="utf-8")
+
+
 def test_infeasible_case_is_reported_exit_1(tmp_path: Path) -> None:
     text = RIVER.read_text().replace(
         'discharge = { max = "0.15 m^3/s" }', 'discharge = { max = "0.0001 m^3/s" }'

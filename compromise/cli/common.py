@@ -270,8 +270,9 @@ UnitsOpt = Annotated[
     str | None,
     typer.Option(
         "--units",
-        help="Units of the text output: 'si' or 'us' (feet, cfs, psi, degF, lbf). Default: the "
-        "case's display_units, else si. JSON stays SI; CSV files only follow an explicit --units.",
+        help="Units of the text output and figures: 'si' or 'us' (feet, cfs, psi, degF, lbf). "
+        "Default: the case's display_units, else si. JSON stays SI; CSV files only follow an "
+        "explicit --units.",
         show_default=False,
     ),
 ]

@@ -11,10 +11,12 @@ from compromise.cli.common import (
     CaseArg,
     JsonOpt,
     OutOpt,
+    UnitsOpt,
     _Command,
     _guard,
     _load,
     _print_json,
+    _units,
     app,
 )
 
@@ -82,6 +84,7 @@ def tradeoff(
         ),
     ] = "percent",
     out: OutOpt = None,
+    units: UnitsOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Trace the exact Pareto front between mismatches and model quantities (CSV, PNG, SVG)."""
@@ -99,14 +102,15 @@ def tradeoff(
                 key="--mismatch",
             )
         check_output_folder(out or Path("out") / case.stem)
-        front = trace_front(
-            _load(case), _axes_list(between, more), points=points, lift=not keep_limits
-        )
-        paths = write_front(front, out or Path("out") / case.stem, mismatch)
+        c = _load(case)
+        system, explicit = _units(units, c)
+        front = trace_front(c, _axes_list(between, more), points=points, lift=not keep_limits)
+        folder = out or Path("out") / case.stem
+        paths = write_front(front, folder, mismatch, system, system if explicit else "si")
         if json_out:
             _print_json(stamped(front.to_dict(), front.case))
         else:
-            typer.echo(format_front(front))
+            typer.echo(format_front(front, system=system))
             typer.echo("\n" + _written(paths))
         return 0 if front.points else 1
 
@@ -154,6 +158,7 @@ def map_(
         ),
     ] = False,
     out: OutOpt = None,
+    units: UnitsOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """Draw the feasible window over two decision variables, with the mismatch inside it."""
@@ -166,14 +171,18 @@ def map_(
 
         check_output_folder(out or Path("out") / case.stem)
         names = _axes_list(axes, more)
+        c = _load(case)
+        system, explicit = _units(units, c)
         dmap = design_map(
-            _load(case), names or None, fluid=fluid, resolution=resolution, full_range=full_range
+            c, names or None, fluid=fluid, resolution=resolution, full_range=full_range
         )
-        paths = write_map(dmap, out or Path("out") / case.stem)
+        paths = write_map(
+            dmap, out or Path("out") / case.stem, system, system if explicit else "si"
+        )
         if json_out:
             _print_json(stamped(dmap.to_dict(), dmap.case))
         else:
-            typer.echo(format_map(dmap))
+            typer.echo(format_map(dmap, system))
             typer.echo("\n" + _written(paths))
         return 0 if dmap.feasible_share > 0 else 1
 
@@ -207,6 +216,7 @@ def sensitivity(
         ),
     ] = 0,
     out: OutOpt = None,
+    units: UnitsOpt = None,
     json_out: JsonOpt = False,
 ) -> None:
     """How often each candidate design (fluid x preferred ratio) is best when weights vary."""
@@ -218,12 +228,15 @@ def sensitivity(
         from compromise.review.provenance import stamped
 
         check_output_folder(out or Path("out") / case.stem)
-        sens = weight_sensitivity(_load(case), spread=spread, samples=samples, seed=seed)
-        paths = write_sensitivity(sens, out or Path("out") / case.stem)
+        c = _load(case)
+        system, explicit = _units(units, c)
+        sens = weight_sensitivity(c, spread=spread, samples=samples, seed=seed)
+        folder = out or Path("out") / case.stem
+        paths = write_sensitivity(sens, folder, system, system if explicit else "si")
         if json_out:
             _print_json(stamped(sens.to_dict(), sens.case))
         else:
-            typer.echo(format_sensitivity(sens))
+            typer.echo(format_sensitivity(sens, system))
             typer.echo("\n" + _written(paths))
         return 0 if sens.nominal >= 0 else 1
 

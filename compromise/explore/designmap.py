@@ -25,7 +25,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.envelope import StateSpace, lower_envelope
-from compromise.explore.map_parts import Boundary, row_label
+from compromise.explore.map_parts import Boundary, row_label, row_parts
 from compromise.explore.map_parts import zoom_ranges as _zoom
 from compromise.solving.design import Design
 from compromise.solving.grid import REGULARISATION, Engine, FluidStates, best_state
@@ -508,11 +508,20 @@ def _boundaries(
         label = row_label(case, row)
         if row.condition is not None:
             label += f" ({row.condition})"
-        out.append(Boundary(row.key, label, g.reshape(shape), binding))
+        parts = row_parts(case, row, row.condition)
+        out.append(Boundary(row.key, label, g.reshape(shape), binding, **parts))
         # the same limit in the other conditions: the contour of this field at their shift
         for cond, shift in row.others:
             other = f"{row_label(case, row)} ({cond})"
-            out.append(Boundary(f"{row.key}@{cond}", other, (g - shift).reshape(shape), False))
+            out.append(
+                Boundary(
+                    f"{row.key}@{cond}",
+                    other,
+                    (g - shift).reshape(shape),
+                    False,
+                    **row_parts(case, row, cond),
+                )
+            )
     return tuple(out)
 
 

@@ -29,7 +29,7 @@ import numpy as np
 from compromise.casefile.model import Case
 from compromise.errors import CaseError
 from compromise.explore.granular_front import held_floor
-from compromise.explore.map_parts import Boundary, row_label, zoom_ranges
+from compromise.explore.map_parts import Boundary, row_label, row_parts, zoom_ranges
 from compromise.solving.granular import GrainEngine, GranularProblem
 from compromise.solving.grid import REGULARISATION, FluidStates, grid_points
 from compromise.solving.qp import SmallQP
@@ -246,5 +246,7 @@ def _boundaries(
             u, p = at_best
             h, _ = rhs(p)
             binding = bool(abs(gp.G[i] @ u - h[0, i]) <= 1e-5 * (1 + abs(h[0, i])))
-        out.append(Boundary(row.key, _label(gp, row, floor), g.reshape(shape), binding))
+        own = row.key == "sediment.moving_bed" or row.name == gp.sed.grain  # labelled in mm
+        parts = {} if own else row_parts(gp.case, row)
+        out.append(Boundary(row.key, _label(gp, row, floor), g.reshape(shape), binding, **parts))
     return tuple(out)

@@ -6,13 +6,14 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import Any
 
 import numpy as np
 
 from compromise.casefile.model import Case
 from compromise.solving.problem import Row
 
-__all__ = ["SLIVER", "Boundary", "row_label", "zoom_ranges"]
+__all__ = ["SLIVER", "Boundary", "row_label", "row_parts", "zoom_ranges"]
 
 #: A feasible window narrower than this share of an axis's range (log for ratios) is a sliver:
 #: by default the map zooms that axis onto it (common practice for a readable figure).
@@ -35,18 +36,41 @@ class Boundary:
         boundary.
     binding : bool
         Whether the limit binds at the optimum of the map's fluid.
+    quantity, op, bound, unit, condition :
+        The parts of a limit on a quantity, for showing its label in other units: the
+        quantity's name, ``<=`` or ``>=``, the bound [SI unit ``unit``] and the condition
+        named in the label (``""`` for none); ``bound`` is None for any other bound.
     """
 
     key: str
     label: str
     violation: np.ndarray = field(repr=False)
     binding: bool = False
+    quantity: str = ""
+    op: str = ""
+    bound: float | None = None
+    unit: str = "-"
+    condition: str = ""
 
     @property
     def excluded(self) -> float:
         """Fraction of the map where this limit alone cannot hold [-]."""
         v = self.violation
         return float(np.mean(~(v <= 1e-9))) if v.size else 0.0
+
+
+def row_parts(case: Case, row: Row, condition: str | None = None) -> dict[str, Any]:
+    """The parts of a limit's label (:class:`Boundary`'s ``quantity`` ... ``condition``), for
+    a limit on a quantity; ``{}`` for any other bound."""
+    if row.kind != "limit":
+        return {}
+    return {
+        "quantity": row.name,
+        "op": "<=" if row.side == "max" else ">=",
+        "bound": float(row.bound),
+        "unit": case.quantities[row.name].unit,
+        "condition": condition or "",
+    }
 
 
 def row_label(case: Case, row: Row) -> str:

@@ -33,27 +33,48 @@ def _save(figure: str, result: Any, stem: Path) -> list[Path]:
     return plots.save_figure(getattr(plots, figure)(result), stem, result.case)
 
 
-def _short(design: Any) -> str:
+def _short(design: Any, system: str = "si") -> str:
     from compromise.presentation.plots import short_label
 
-    return short_label(design)
+    return short_label(design, system)
 
 
-def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> list[Path]:
+def _celsius(kelvin: float, system: str) -> float:
+    """A design's temperature [K] in degC, or in degF in US units."""
+    from compromise.presentation.explore_display import celsius_to
+
+    return celsius_to(kelvin - 273.15, system)[0]
+
+
+def _temperature_unit(system: str) -> str:
+    return "degF" if system == "us" else "degC"
+
+
+def write_front(
+    front: Front,
+    folder: str | Path,
+    mismatch: str = "percent",
+    system: str = "si",
+    csv_system: str = "si",
+) -> list[Path]:
     """``tradeoff_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths. The CSV
     keeps the axes' own units (a group's ``|ln(model/prototype)|``); the figure shows a group's
-    mismatch in % unless ``mismatch`` is ``"value"`` (its model value) or ``"log"``."""
+    mismatch in % unless ``mismatch`` is ``"value"`` (its model value) or ``"log"``. The figure
+    is in ``system`` units, the CSV in ``csv_system`` units (``"si"`` or ``"us"``)."""
+    from compromise.presentation.explore_display import pascal_to, shown_front
+
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / ("tradeoff_" + "_".join(front.names))
     path = stem.with_suffix(".csv")
-    cols = [f"{a.name} [{a.unit}]" for a in front.axes]
+    table_front = shown_front(front, csv_system)
+    cols = [f"{a.name} [{a.unit}]" for a in table_front.axes]
     head = [
         "role",
         *cols,
         "fluid",
-        "temperature [degC]",
-        "pressure [Pa]",
+        f"temperature [{_temperature_unit(csv_system)}]",
+        f"pressure [{pascal_to(1.0, csv_system)[1]}]",
         "horizontal_ratio",
         "vertical_ratio",
         "velocity_ratio",
@@ -63,9 +84,9 @@ def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> 
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(head)
         knee = front.knee if front.has_knee else -1
-        rows = [("knee" if i == knee else "front", pt) for i, pt in enumerate(front.points)]
-        if front.chosen is not None:
-            rows.append(("chosen", front.chosen))
+        rows = [("knee" if i == knee else "front", pt) for i, pt in enumerate(table_front.points)]
+        if table_front.chosen is not None:
+            rows.append(("chosen", table_front.chosen))
         for role, pt in rows:
             d = pt.design
             w.writerow(
@@ -73,8 +94,8 @@ def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> 
                     role,
                     *(repr(x) for x in pt.values),
                     d.fluid,
-                    repr(d.temperature - 273.15),
-                    repr(d.pressure),
+                    repr(_celsius(d.temperature, csv_system)),
+                    repr(pascal_to(d.pressure, csv_system)[0]),
                     repr(d.horizontal_ratio),
                     repr(d.vertical_ratio),
                     repr(d.velocity_ratio),
@@ -83,7 +104,8 @@ def write_front(front: Front, folder: str | Path, mismatch: str = "percent") -> 
             )
     from compromise.presentation import plots
 
-    return [path, *plots.save_figure(plots.front_figure(front, mismatch), stem, front.case)]
+    figure = plots.front_figure(front, mismatch, system)
+    return [path, *plots.save_figure(figure, stem, front.case)]
 
 
 def _shown(front: Front, values: Any) -> list[Any]:
@@ -94,8 +116,12 @@ def _shown(front: Front, values: Any) -> list[Any]:
     ]
 
 
-def format_front(front: Front, rows: int = 12) -> str:
-    """A readable summary: every few points of the front, the knee and the solver's design."""
+def format_front(front: Front, rows: int = 12, system: str = "si") -> str:
+    """A readable summary: every few points of the front, the knee and the solver's design
+    (quantity axes and temperatures in ``system`` units, ``"si"`` or ``"us"``)."""
+    from compromise.presentation.explore_display import shown_front
+
+    front = shown_front(front, system)
     out = [front.case.title, ""]
     names = " vs ".join(f"{a.label} [{a.unit}]" for a in front.axes)
     if not front.points:
@@ -125,7 +151,7 @@ def format_front(front: Front, rows: int = 12) -> str:
         "#",
         *(f"{a.name} [{a.unit}]" for a in front.axes),
         "fluid",
-        "T [degC]",
+        f"T [{_temperature_unit(system)}]",
         "X",
         "distortion",
         "V",
@@ -141,7 +167,7 @@ def format_front(front: Front, rows: int = 12) -> str:
                 str(i),
                 *_shown(front, pt.values),
                 d.fluid,
-                f"{d.temperature - 273.15:.1f}",
+                f"{_celsius(d.temperature, system):.1f}",
                 format_ratio(d.horizontal_ratio),
                 d.distortion,
                 format_ratio(d.velocity_ratio),
@@ -156,7 +182,7 @@ def format_front(front: Front, rows: int = 12) -> str:
                 "solver",
                 *_shown(front, front.chosen.values),
                 d.fluid,
-                f"{d.temperature - 273.15:.1f}",
+                f"{_celsius(d.temperature, system):.1f}",
                 format_ratio(d.horizontal_ratio),
                 d.distortion,
                 format_ratio(d.velocity_ratio),
@@ -180,21 +206,26 @@ def format_front(front: Front, rows: int = 12) -> str:
     return "\n".join(out)
 
 
-def write_map(dmap: DesignMap, folder: str | Path) -> list[Path]:
-    """``map_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths."""
+def write_map(
+    dmap: DesignMap, folder: str | Path, system: str = "si", csv_system: str = "si"
+) -> list[Path]:
+    """``map_A_B.csv``, ``.png`` and ``.svg`` in ``folder``; return the paths. The figure is
+    in ``system`` units, the CSV in ``csv_system`` units (``"si"`` or ``"us"``)."""
+    from compromise.presentation.explore_display import map_axis
+
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / f"map_{dmap.axes[0]}_{dmap.axes[1]}"
     path = stem.with_suffix(".csv")
-    X, Y = dmap.grid(0), dmap.grid(1)
+    (x_unit, X), (y_unit, Y) = map_axis(dmap, 0, csv_system), map_axis(dmap, 1, csv_system)
     with atomic_output(path) as fh:
         w = csv.writer(fh, lineterminator="\n")
         w.writerow(
             [
-                f"{dmap.axes[0]} [{dmap.units[0]}]",
-                f"{dmap.axes[1]} [{dmap.units[1]}]",
+                f"{dmap.axes[0]} [{x_unit}]",
+                f"{dmap.axes[1]} [{y_unit}]",
                 "objective [-]",
-                "temperature [degC]",
+                f"temperature [{_temperature_unit(csv_system)}]",
                 *(f"{b.key} log-violation [-]" for b in dmap.boundaries),
             ]
         )
@@ -206,15 +237,20 @@ def write_map(dmap: DesignMap, folder: str | Path) -> list[Path]:
                         repr(float(X[c])),
                         repr(float(Y[r])),
                         repr(float(o)) if math.isfinite(o) else "",
-                        repr(float(dmap.temperature[r, c] - 273.15)),
+                        repr(float(_celsius(dmap.temperature[r, c], csv_system))),
                         *(repr(float(b.violation[r, c])) for b in dmap.boundaries),
                     ]
                 )
-    return [path, *_save("map_figure", dmap, stem)]
+    from compromise.presentation import plots
+
+    return [path, *plots.save_figure(plots.map_figure(dmap, system), stem, dmap.case)]
 
 
-def format_map(dmap: DesignMap) -> str:
-    """The window's extent, the limits that bound it and the preferred ratios."""
+def format_map(dmap: DesignMap, system: str = "si") -> str:
+    """The window's extent, the limits that bound it and the preferred ratios (limits on
+    quantities, temperatures and pressures in ``system`` units, ``"si"`` or ``"us"``)."""
+    from compromise.presentation.explore_display import boundary_label, pascal_to
+
     out = [
         dmap.case.title,
         "",
@@ -229,25 +265,35 @@ def format_map(dmap: DesignMap) -> str:
                 if dmap.axes[i] == "temperature"
                 else f"{format_ratio(lo)} to {format_ratio(hi)}"
             )
+            if system == "us" and dmap.axes[i] == "temperature":
+                t = _temperature_unit(system)
+                shown = f"{_celsius(lo, system):g} to {_celsius(hi, system):g} {t}"
+            elif system == "us" and dmap.axes[i] == "pressure":
+                p = [pascal_to(v, system)[0] for v in (lo, hi)]  # [Pa]
+                shown = f"{fmt(p[0])} to {fmt(p[1])} {pascal_to(1.0, system)[1]}"
             out.append(
                 f"The feasible window is a thin sliver of the {dmap.axes[i]} range ({shown}): "
                 "the map is zoomed onto it (--full-range for the whole range)."
             )
     if dmap.optimum is not None:
         out.append(
-            f"Optimum: {_short(dmap.optimum)} (weighted mismatch "
+            f"Optimum: {_short(dmap.optimum, system)} (weighted mismatch "
             f"{fmt(_mismatch(dmap.optimum_objective))})."
         )
     out.append("")
     rows = [
-        [b.label, b.key, f"{100 * b.excluded:.1f}", "yes" if b.binding else ""]
+        [boundary_label(b, system), b.key, f"{100 * b.excluded:.1f}", "yes" if b.binding else ""]
         for b in dmap.boundaries
     ]
     out.append(table(["limit", "key", "excludes [% of map]", "binds"], rows))
     if dmap.preferred:
         out.append("")
         rows = [
-            [r, _short(d) if d else "infeasible", _mismatch(o) if math.isfinite(o) else None]
+            [
+                r,
+                _short(d, system) if d else "infeasible",
+                _mismatch(o) if math.isfinite(o) else None,
+            ]
             for r, d, o in dmap.preferred
         ]
         out.append(table(["preferred ratio", "best design there", "mismatch [-]"], rows))
@@ -255,8 +301,14 @@ def format_map(dmap: DesignMap) -> str:
     return "\n".join(out)
 
 
-def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
-    """``sensitivity.csv`` (candidates), ``sensitivity_samples.csv`` and the bar chart."""
+def write_sensitivity(
+    sens: Sensitivity, folder: str | Path, system: str = "si", csv_system: str = "si"
+) -> list[Path]:
+    """``sensitivity.csv`` (candidates), ``sensitivity_samples.csv`` and the bar chart. The
+    samples' optimum temperature and pressure are in ``csv_system`` units (``"si"`` or
+    ``"us"``); the chart has no dimensional value, so ``system`` does not change it."""
+    from compromise.presentation.explore_display import shown_range
+
     folder = Path(folder)
     check_output_folder(folder)
     stem = folder / "sensitivity"
@@ -296,19 +348,31 @@ def write_sensitivity(sens: Sensitivity, folder: str | Path) -> list[Path]:
                 "sample",
                 *(f"factor {g}" for g in sens.groups),
                 "best candidate",
-                *(f"optimum {r.name} [{r.unit}]" for r in sens.ranges),
+                *(f"optimum {r.name} [{shown_range(r, csv_system).unit}]" for r in sens.ranges),
             ]
         )
+        columns = [_sample_column(r.name, csv_system) for r in sens.ranges]
         for i in range(sens.samples):
             w.writerow(
                 [
                     i,
                     *(repr(float(x)) for x in sens.factors[i]),
                     _best_of(sens, i),
-                    *(repr(float(x)) for x in sens.optima[i]),
+                    *(repr(f(float(x))) for f, x in zip(columns, sens.optima[i], strict=True)),
                 ]
             )
     return [path, samples, *_save("sensitivity_figure", sens, stem)]
+
+
+def _sample_column(name: str, system: str) -> Any:
+    """How a column of the samples' optima (temperature [degC], pressure [Pa]) is shown."""
+    from compromise.presentation.explore_display import celsius_to, pascal_to
+
+    if system == "us" and name == "temperature":
+        return lambda v: celsius_to(v, system)[0]
+    if system == "us" and name == "pressure":
+        return lambda v: pascal_to(v, system)[0]
+    return lambda v: v
 
 
 def _best_of(sens: Sensitivity, sample: int) -> str:
@@ -327,9 +391,11 @@ def _mismatch(v: float) -> Any:
     return denoise(v) if math.isfinite(v) else "infeasible"
 
 
-def format_sensitivity(sens: Sensitivity) -> str:
-    """The candidates' shares and the ranges of the optimum's decision variables."""
+def format_sensitivity(sens: Sensitivity, system: str = "si") -> str:
+    """The candidates' shares and the ranges of the optimum's decision variables (temperature
+    and pressure in ``system`` units, ``"si"`` or ``"us"``)."""
     from compromise.explore.sensitivity import TIE_ABS
+    from compromise.presentation.explore_display import shown_range
 
     out = [
         sens.case.title,
@@ -396,7 +462,7 @@ def format_sensitivity(sens: Sensitivity) -> str:
             f"{r.name} [{r.unit}]",
             *(show(r, v) for v in (r.nominal, r.minimum, r.p05, r.median, r.p95, r.maximum)),
         ]
-        for r in sens.ranges
+        for r in (shown_range(r, system) for r in sens.ranges)
     ]
     out.append(table(["variable", "case weights", "min", "5 %", "median", "95 %", "max"], rows))
     shares = ", ".join(f"{f} {100 * s:.1f} %" for f, s in sens.fluid_shares.items())

@@ -42,15 +42,26 @@ FOOTER_COLOUR = "0.35"
 LINE_SPACING = 1.3  # [-] of the font size
 
 
-def short_label(design: Design) -> str:
+def short_label(design: Design, system: str = "si") -> str:
     """``water 30.0 degC, 1:94, distortion 4.38`` (and ``, polystyrene 2.11 mm`` where the
-    design has a granular material)."""
+    design has a granular material); in US units (``system="us"``) the temperature in degF
+    and a pressure in psi."""
     ratios = format_ratio(design.horizontal_ratio)
     if abs(design.distortion - 1.0) > 1e-6:
         ratios += f", distortion {design.distortion:.2f}"
-    state = f"{design.temperature - 273.15:.1f} degC"
-    if abs(design.pressure / 101325.0 - 1.0) > 0.01:  # a pressurised (or evacuated) fluid
-        state += f" {design.pressure / 1e5:.3g} bar"
+    pressurised = abs(design.pressure / 101325.0 - 1.0) > 0.01  # or evacuated
+    if system == "us":
+        from compromise.presentation.explore_display import celsius_to, pascal_to
+
+        t, t_unit = celsius_to(design.temperature - 273.15, system)
+        state = f"{t:.1f} {t_unit}"
+        if pressurised:
+            p, p_unit = pascal_to(design.pressure, system)
+            state += f" {p:.3g} {p_unit}"
+    else:
+        state = f"{design.temperature - 273.15:.1f} degC"
+        if pressurised:
+            state += f" {design.pressure / 1e5:.3g} bar"
     if design.material is not None and design.grain_size is not None:  # a [sediment] case
         ratios += f", {design.material} {design.grain_size * 1e3:.3g} mm"
     return f"{design.fluid} {state}, {ratios}"

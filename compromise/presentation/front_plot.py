@@ -151,7 +151,9 @@ def front_caption(front: Front) -> str:
 
 
 def _chosen_on_front(front: Front) -> bool:
-    """Whether the solver's design has the values of a point of the front (within 1e-6)."""
+    """Whether the solver's design has the values of a point of the front (within 1e-6; of
+    the computed front, whatever the units shown)."""
+    front = getattr(front, "source", None) or front
     if front.chosen is None or not front.points:
         return False
     c = np.asarray(front.chosen.values, dtype=float)
@@ -159,10 +161,14 @@ def _chosen_on_front(front: Front) -> bool:
     return bool(np.any(np.all(d, axis=1)))
 
 
-def front_figure(front: Front, mismatch: str = "percent") -> Figure:
+def front_figure(front: Front, mismatch: str = "percent", system: str = "si") -> Figure:
     """The Pareto front in presentation units, the knee (where the front has one) and the
     solver's design called out, the case's lifted limits drawn and labelled; three axes as a
-    scatter of the first two coloured by the third."""
+    scatter of the first two coloured by the third. ``system``: ``"si"`` or ``"us"`` (the
+    quantity axes, and the callouts' temperatures, in US customary units)."""
+    from compromise.presentation.explore_display import shown_front
+
+    front = shown_front(front, system)
     k = len(front.axes)
     fig = new_figure(8.4 if k == 3 else 7.6, 6.4)
     ax = fig.subplots()
@@ -382,14 +388,18 @@ def front_figure(front: Front, mismatch: str = "percent") -> Figure:
     if knee >= 0:
         callouts.append(
             (
-                "knee: " + short_label(front.points[knee].design),
+                "knee: " + short_label(front.points[knee].design, system),
                 (shown[knee, 0], shown[knee, 1]),
                 "white",
             )
         )
     if chosen is not None:
         callouts.append(
-            ("chosen: " + short_label(front.chosen.design), (chosen[0], chosen[1]), "#fff7cc")
+            (
+                "chosen: " + short_label(front.chosen.design, system),
+                (chosen[0], chosen[1]),
+                "#fff7cc",
+            )
         )
     _place_callouts(fig, ax, callouts, shown[:, :2], limit_labels)
     return fig

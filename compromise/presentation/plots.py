@@ -94,6 +94,46 @@ def _grain_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
     axis.set_major_formatter(FuncFormatter(lambda v, _: f"{v:g}"))
 
 
+#: nice pressures for the ticks of a pressure axis in US units [psi]
+PSI_STEPS = (1, 2, 5, 10, 15, 20, 30, 50, 70, 100, 150, 200, 300, 500, 700, 1000, 1500, 2000)
+
+
+def _fahrenheit_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
+    """A temperature axis drawn in degC (the map's data) ticked at round degF values."""
+    from matplotlib.ticker import FixedFormatter, FixedLocator, MaxNLocator, NullLocator
+
+    from compromise.presentation.explore_display import celsius_to, fahrenheit_to_celsius
+
+    axis = ax.xaxis if which == "x" else ax.yaxis
+    f_lo, f_hi = celsius_to(lo, "us")[0], celsius_to(hi, "us")[0]
+    ticks = MaxNLocator(nbins=6, steps=[1, 2, 2.5, 5, 10]).tick_values(f_lo, f_hi)
+    eps = 1e-9 * max(1.0, abs(f_lo), abs(f_hi))
+    ticks = [float(t) for t in ticks if f_lo - eps <= t <= f_hi + eps]
+    axis.set_major_locator(FixedLocator([fahrenheit_to_celsius(t) for t in ticks]))
+    axis.set_major_formatter(FixedFormatter([f"{t:g}" for t in ticks]))
+    axis.set_minor_locator(NullLocator())
+
+
+def _psi_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
+    """A pressure axis drawn in bar (the map's data) on a log scale, ticked at round psi."""
+    from matplotlib.ticker import FixedFormatter, FixedLocator, NullLocator
+
+    from compromise.presentation.display import US
+    from compromise.presentation.explore_display import BAR
+
+    axis = ax.xaxis if which == "x" else ax.yaxis
+    (ax.set_xscale if which == "x" else ax.set_yscale)("log")
+    per_bar = BAR * US["Pa"][1]  # psi in one bar
+    p_lo, p_hi = lo * per_bar, hi * per_bar
+    ticks: list[float] = [t for t in PSI_STEPS if p_lo * (1 - 1e-9) <= t <= p_hi * (1 + 1e-9)]
+    labels = [f"{t:g}" for t in ticks]
+    if len(ticks) < 2:
+        ticks, labels = [p_lo, p_hi], [fmt(p_lo), fmt(p_hi)]
+    axis.set_major_locator(FixedLocator([t / per_bar for t in ticks]))
+    axis.set_major_formatter(FixedFormatter(labels))
+    axis.set_minor_locator(NullLocator())
+
+
 def _unit_coords(dmap: DesignMap, x: np.ndarray, y: np.ndarray) -> np.ndarray:
     """Points of the map in [0, 1]^2 (log axes for ratios), for placing labels."""
     out = []
@@ -122,15 +162,19 @@ def _fill_nan(a: np.ndarray, passes: int = 4) -> np.ndarray:
     return a
 
 
-def map_figure(dmap: DesignMap) -> Figure:
+def map_figure(dmap: DesignMap, system: str = "si") -> Figure:
     """The feasible window (each boundary labelled with its limit, ticks on the infeasible side),
-    filled contours of the weighted mismatch, the optimum and the preferred ratios."""
+    filled contours of the weighted mismatch, the optimum and the preferred ratios. In US units
+    (``system="us"``) the limits on quantities, a temperature axis (degF ticks on the degC data)
+    and a pressure axis (psi ticks on the bar data) are shown in US customary units."""
     from matplotlib import patheffects
     from matplotlib.colors import LogNorm
     from matplotlib.lines import Line2D
     from matplotlib.patches import Patch, PathPatch, Rectangle
     from matplotlib.path import Path as MPath
     from matplotlib.ticker import FuncFormatter
+
+    from compromise.presentation.explore_display import boundary_label, map_axis
 
     fig = new_figure(9.4, 7.4)
     ax = fig.subplots()
@@ -139,8 +183,12 @@ def map_figure(dmap: DesignMap) -> Figure:
     for which, axis_name, g in (("x", dmap.axes[0], X), ("y", dmap.axes[1], Y)):
         if axis_name in ("horizontal_ratio", "vertical_ratio", "velocity_ratio"):
             _ratio_axis(ax, which, float(g[0]), float(g[-1]))
+        elif axis_name == "pressure" and system == "us":
+            _psi_axis(ax, which, float(g[0]), float(g[-1]))
         elif axis_name in ("distortion", "pressure"):
             _distortion_axis(ax, which, float(g[0]), float(g[-1]))
+        elif axis_name == "temperature" and system == "us":
+            _fahrenheit_axis(ax, which, float(g[0]), float(g[-1]))
         elif axis_name == "grain_size":  # millimetres, on a log axis
             _grain_axis(ax, which, float(g[0]), float(g[-1]))
     ax.set_xlim(X[0], X[-1])
@@ -234,7 +282,7 @@ def map_figure(dmap: DesignMap) -> Figure:
         "#bcbd22",
         "#7f7f7f",
     )
-    placed.extend(_model_bounds(ax, dmap, feasible, list(placed)))
+    placed.extend(_model_bounds(ax, dmap, feasible, list(placed), system))
     # one colour per limit; the same limit in a looser condition (key "...@condition") is a
     # thin dotted line of the same colour, without ticks or an on-line label. A boundary that
     # runs on top of one already drawn is dashed, so that the one beneath shows in its gaps.
@@ -245,6 +293,7 @@ def map_figure(dmap: DesignMap) -> Figure:
     drawn: list[tuple[str, np.ndarray]] = []
     entries: dict[str, dict[str, Any]] = {}
     for b in dmap.boundaries:
+        shown = boundary_label(b, system)
         g = b.violation
         # cells where the [model] bounds alone leave nothing (inf) are no part of the limit's
         # boundary: its line is the zero level of its finite values only
@@ -279,7 +328,7 @@ def map_figure(dmap: DesignMap) -> Figure:
             if active:
                 mine = _unit_coords(dmap, *np.vstack(active).T)
                 on_top = _coincides(mine, drawn)
-                drawn.append((_base_label(b.label), mine))
+                drawn.append((_base_label(shown), mine))
             if on_top is not None:
                 style = (0, (6, 6))
             for piece in active:
@@ -294,7 +343,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                     path_effects=[patheffects.withTickedStroke(angle=135, spacing=8, length=0.7)],
                 )
             if active:
-                text = b.label + ("  (binds)" if b.binding else "")
+                text = shown + ("  (binds)" if b.binding else "")
                 if on_top is not None:
                     text += f"  (on {on_top})"
                 placed.append(
@@ -305,7 +354,7 @@ def map_figure(dmap: DesignMap) -> Figure:
             {
                 "colour": colour,
                 "style": style,
-                "label": _base_label(b.label),
+                "label": _base_label(shown),
                 "conds": [],
                 "closes": False,
             },
@@ -313,7 +362,7 @@ def map_figure(dmap: DesignMap) -> Figure:
         if not looser:
             entry["style"] = style
             entry["closes"] = entry["closes"] or bool(active)
-        entry["conds"].append((_condition(b.label), looser, b.binding))
+        entry["conds"].append((_condition(shown), looser, b.binding))
     handles.extend(_limit_entry(e) for e in entries.values() if e["closes"])
     hidden = [
         e["label"]
@@ -345,7 +394,7 @@ def map_figure(dmap: DesignMap) -> Figure:
                 color="#ffd400",
                 mec="black",
                 lw=0,
-                label=f"optimum: {short_label(dmap.optimum)}, "
+                label=f"optimum: {short_label(dmap.optimum, system)}, "
                 f"mismatch {fmt(_denoise(dmap.optimum_objective))}",
             )
         )
@@ -390,8 +439,8 @@ def map_figure(dmap: DesignMap) -> Figure:
                 label="preferred ratio, and the best design there",
             )
         )
-    ax.set_xlabel(f"{dmap.labels[0]} [{dmap.units[0]}]")
-    ax.set_ylabel(f"{dmap.labels[1]} [{dmap.units[1]}]")
+    ax.set_xlabel(f"{dmap.labels[0]} [{map_axis(dmap, 0, system)[0]}]")
+    ax.set_ylabel(f"{dmap.labels[1]} [{map_axis(dmap, 1, system)[0]}]")
     handles.append(
         Patch(
             facecolor="0.96",
@@ -470,11 +519,18 @@ def _coincides(mine: np.ndarray, drawn: list[tuple[str, np.ndarray]]) -> str | N
 
 
 def _model_bounds(
-    ax: Axes, dmap: DesignMap, feasible: np.ndarray, avoid: list[np.ndarray]
+    ax: Axes,
+    dmap: DesignMap,
+    feasible: np.ndarray,
+    avoid: list[np.ndarray],
+    system: str = "si",
 ) -> list[np.ndarray]:
     """Label each ``[model]`` bound at the frame's edge where it closes the feasible window,
     centred on the window's stretch of that edge; return the labels' boxes in unit
-    coordinates (for the other labels to keep clear of)."""
+    coordinates (for the other labels to keep clear of). Temperatures in degF and pressures
+    in psi in US units."""
+    from compromise.presentation.explore_display import BAR, celsius_to, pascal_to
+
     if not feasible.any():
         return []
     m = dmap.case.model
@@ -503,7 +559,11 @@ def _model_bounds(
             on_edge = feasible[:, end] if which == 0 else feasible[end, :]
             if not on_edge.any() or abs(g[end] - value) > 1e-9 * max(1.0, abs(value)):
                 continue
-            if axis == "temperature":
+            if axis == "temperature" and system == "us":
+                shown = "temperature {} {:g} {}".format(op, *celsius_to(value, system))
+            elif axis == "pressure" and system == "us":
+                shown = "pressure {} {:.4g} {}".format(op, *pascal_to(value * BAR, system))
+            elif axis == "temperature":
                 shown = f"temperature {op} {value:g} degC"
             elif axis == "pressure":
                 shown = f"pressure {op} {value:g} bar"

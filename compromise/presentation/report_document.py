@@ -216,15 +216,13 @@ def _tradeoffs(doc: Doc, data: ReportData, system: str) -> None:
 
     b = doc.section(7)
     case = data.case
-    if system == "us":
-        b.append(para("The figures show SI units (metres, m^3/s, degC), as the library computes."))
     if data.dmap is not None:
         fig = doc.figure(
             f"Design-space map over {data.dmap.axes[0]} and {data.dmap.axes[1]} "
             f"({data.dmap.fluid if hasattr(data.dmap, 'fluid') else ''}): the feasible window "
             "inside the laboratory's limits, the weighted mismatch as contours, the chosen "
             "design marked.",
-            svg_bytes(plots.map_figure(data.dmap), case),
+            svg_bytes(plots.map_figure(data.dmap, system), case),
             "figure-map",
         )
         b.append(fig)
@@ -247,7 +245,7 @@ def _tradeoffs(doc: Doc, data: ReportData, system: str) -> None:
         )
         fig = doc.figure(
             f"Main Pareto front, {names} ({why}). {marked}",
-            svg_bytes(plots.front_figure(data.front), case),
+            svg_bytes(plots.front_figure(data.front, system=system), case),
             "figure-front",
         )
         b.append(fig)

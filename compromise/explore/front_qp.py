@@ -38,6 +38,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from compromise.explore.reduced_qp import equality_point
 from compromise.solving.qp import FEASIBILITY_TOL, independent_rows
 
 PARALLEL = 1e-12  # |G_j D| below this (relative to |G_j|): the row is fixed by the equalities
@@ -150,12 +151,7 @@ class FrontQP:
         """The state rows of property log-ratios ``p`` (U, 6): among them the optimum under
         the rows without epsilon (the epsilon rows only cut that polygon further)."""
         e = self.e0 + p @ self.Qe.T
-        yp = e[:, self.keep] @ self.pinv.T  # (U, 3)
-        ok = np.ones(p.shape[0], dtype=bool)
-        if self.others:
-            eo = e[:, self.others]
-            gap = np.abs(yp @ self.E[self.others].T - eo)
-            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+        yp, ok = equality_point(e, self.E, self.keep, self.others, self.pinv)
         f = p @ self.F.T + self.f0
         b = (yp @ self.H + f) @ self.D  # (U, k)
         h = self.h0 + p @ self.P.T
@@ -182,28 +178,17 @@ class FrontQP:
                     np.min(g[:, rows[up]] / a[up], axis=1) if up.any() else inf,
                 )
                 ok &= interval[2] <= interval[3]
-            return FrontStates(
-                ok,
-                b,
-                np.ascontiguousarray(t[:, 0]),
-                np.ascontiguousarray(t[:, 1]),
-                np.ascontiguousarray(h.T),
-                np.ascontiguousarray(Gyp.T),
-                np.ascontiguousarray(g0.T),
-                np.ascontiguousarray(g.T),
-                yp,
-                interval,
-            )
-        t = -b @ self.Qinv.T  # the unconstrained minimiser
-        GD = self.GD[rows]
-        violated = t[:, 0:1] * GD[:, 0] + t[:, 1:2] * GD[:, 1] > g[:, rows]
-        out = np.flatnonzero(violated.any(axis=1))
-        if out.size:
-            t_out, found = self._edges(
-                b[out], g0[out][:, rows], g[out][:, rows], violated[out], rows
-            )
-            t[out] = t_out
-            ok[out] &= found
+        else:
+            t = -b @ self.Qinv.T  # the unconstrained minimiser
+            GD = self.GD[rows]
+            violated = t[:, 0:1] * GD[:, 0] + t[:, 1:2] * GD[:, 1] > g[:, rows]
+            out = np.flatnonzero(violated.any(axis=1))
+            if out.size:
+                t_out, found = self._edges(
+                    b[out], g0[out][:, rows], g[out][:, rows], violated[out], rows
+                )
+                t[out] = t_out
+                ok[out] &= found
         return FrontStates(
             ok,
             b,
@@ -214,6 +199,7 @@ class FrontQP:
             np.ascontiguousarray(g0.T),
             np.ascontiguousarray(g.T),
             yp,
+            interval,
         )
 
     def solve(

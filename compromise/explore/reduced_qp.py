@@ -81,6 +81,21 @@ class States:
     edge: np.ndarray
 
 
+def equality_point(
+    e: np.ndarray, E: np.ndarray, keep: list[int], others: list[int], pinv: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """The least-norm solutions ``y_p`` (U, 3) of the independent equality rows ``keep`` of
+    ``E`` (their pseudo-inverse ``pinv``) for right-hand sides ``e`` (U, q), and whether the
+    other rows hold there within the solver's tolerance (U,)."""
+    yp = e[:, keep] @ pinv.T
+    ok = np.ones(e.shape[0], dtype=bool)
+    if others:
+        eo = e[:, others]
+        gap = np.abs(yp @ E[others].T - eo)
+        ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+    return yp, ok
+
+
 class ReducedQP:
     """The subproblems of a problem for many weight vectors, in the equalities' null space.
 
@@ -150,12 +165,7 @@ class ReducedQP:
         e = pr.e0 + p @ pr.Q.T
         if self.extra.shape[0]:
             e = np.concatenate([e, extra_e], axis=1)
-        yp = e[:, self.keep] @ self.pinv.T  # (U, 3)
-        ok = np.ones(p.shape[0], dtype=bool)
-        if self.others:
-            eo = e[:, self.others]
-            gap = np.abs(yp @ self.E[self.others].T - eo)
-            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+        yp, ok = equality_point(e, self.E, self.keep, self.others, self.pinv)
         Gyp = yp @ pr.G.T
         g0 = h - Gyp  # the rows' room at t = 0
         g = h + FEASIBILITY_TOL * (1.0 + np.abs(h)) - Gyp  # within tolerance

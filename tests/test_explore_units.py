@@ -187,3 +187,20 @@ def test_sensitivity_ranges_in_degf(tmp_path: Path) -> None:
     text = run("sensitivity", CULVERT_US, "--samples", "20", "-o", str(tmp_path))
     row = next(x for x in text.splitlines() if x.startswith("temperature"))
     assert row.split()[:3] == ["temperature", "[degF]", "77"]
+
+
+def test_a_zoomed_pressure_axis_is_named_in_bar_and_psi() -> None:
+    """The sentence about a zoomed axis gives the pressure range in the map's unit (bar; psi
+    in US units), not as a scale ratio: 2e5 Pa = 2 bar, 8e5 Pa = 8 bar (1 bar = 1e5 Pa by
+    definition) = 29.01 and 116 psi (1 psi = 6894.757 Pa, NIST SP 811, from memory)."""
+    import dataclasses
+
+    from compromise.presentation.explore_tables import format_map
+
+    dmap = design_map(load_case(ROOT / "cases" / "wind_tunnel.toml"), resolution=11)
+    assert dmap.axes[1] == "pressure"
+    zoomed = dataclasses.replace(
+        dmap, zoomed=(False, True), full_ranges=(dmap.full_ranges[0], (2e5, 8e5))
+    )
+    assert "pressure range (2 to 8 bar)" in format_map(zoomed)
+    assert "pressure range (29.01 to 116 psi)" in format_map(zoomed, "us")

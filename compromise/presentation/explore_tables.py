@@ -260,11 +260,13 @@ def format_map(dmap: DesignMap, system: str = "si") -> str:
     for i in (0, 1):
         if dmap.zoomed and dmap.zoomed[i]:
             lo, hi = dmap.full_ranges[i]
-            shown = (
-                f"{lo - 273.15:g} to {hi - 273.15:g} degC"
-                if dmap.axes[i] == "temperature"
-                else f"{format_ratio(lo)} to {format_ratio(hi)}"
-            )
+            scale = {"pressure": 1e-5, "grain_size": 1e3}.get(dmap.axes[i])  # to bar, mm
+            if dmap.axes[i] == "temperature":
+                shown = f"{lo - 273.15:g} to {hi - 273.15:g} degC"
+            elif scale is not None:
+                shown = f"{fmt(lo * scale)} to {fmt(hi * scale)} {dmap.units[i]}"
+            else:
+                shown = f"{format_ratio(lo)} to {format_ratio(hi)}"
             if system == "us" and dmap.axes[i] == "temperature":
                 t = _temperature_unit(system)
                 shown = f"{_celsius(lo, system):g} to {_celsius(hi, system):g} {t}"

@@ -56,9 +56,10 @@ class StateSpace:
         the grid's pressures are combined with cubic-spline weights in log-pressure.
         """
         T = np.atleast_1d(np.asarray(T, dtype=float))
-        Tu, back = np.unique(T, return_inverse=True)
         if self._weights is None:
-            return self.fs.p(Tu, float(self.pressures[0]))[back]
+            table, index = self.p_rows(T, lnp)
+            return table[index]
+        Tu, back = np.unique(T, return_inverse=True)
         lnp = np.broadcast_to(np.asarray(lnp, dtype=float), T.shape)
         w = self._weights(np.clip(lnp, *self.lnp_range))  # (N, J)
         tabs = np.stack([self.fs.p(Tu, float(P)) for P in self.pressures])[:, back]  # (J, N, 6)

@@ -38,10 +38,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from compromise.explore.reduced_qp import equality_point
-from compromise.solving.qp import FEASIBILITY_TOL, independent_rows
-
-PARALLEL = 1e-12  # |G_j D| below this (relative to |G_j|): the row is fixed by the equalities
+from compromise.explore.reduced_qp import PARALLEL, NullSpace
+from compromise.solving.qp import FEASIBILITY_TOL
 
 
 @dataclass(frozen=True)
@@ -69,7 +67,7 @@ class FrontStates:
     interval: tuple[np.ndarray, ...] = ()
 
 
-class FrontQP:
+class FrontQP(NullSpace):
     """The QPs of one epsilon-constraint family, for many states and epsilon values.
 
     Parameters
@@ -99,35 +97,16 @@ class FrontQP:
         Qe: np.ndarray,
         slots: list[list[int]],
     ) -> None:
+        super().__init__(E, G)
         self.H, self.F, self.f0 = H, F, f0
         self.G, self.h0, self.P = G, h0, P
-        self.E, self.e0, self.Qe = E, e0, Qe
+        self.e0, self.Qe = e0, Qe
         self.slots = slots
-        keep = independent_rows(E)
-        self.keep = keep
-        self.others = [j for j in range(E.shape[0]) if j not in keep]
-        if keep:
-            Ek = E[keep]
-            self.pinv = Ek.T @ np.linalg.inv(Ek @ Ek.T)
-            self.D = np.linalg.svd(Ek)[2][len(keep) :].T
-        else:
-            self.pinv, self.D = np.zeros((3, 0)), np.eye(3)
-        self.k = self.D.shape[1]
         if not self.supported:
             return
         self.Q = self.D.T @ H @ self.D  # (k, k)
-        self.GD = G @ self.D  # (m, k)
-        scale = np.maximum(1.0, np.linalg.norm(G, axis=1))
-        self.fixed = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
-        self.live = np.flatnonzero(~self.fixed)
         if self.k == 2:
             self.Qinv = np.linalg.inv(self.Q)
-            GDl = self.GD[self.live]
-            self.norms = np.linalg.norm(GDl, axis=1)
-            self.N = GDl / self.norms[:, None]  # each live row's unit normal
-            self.U = np.column_stack([-self.N[:, 1], self.N[:, 0]])  # and direction
-            self.Gn = self.N @ GDl.T  # (L, L): row i's normal against every live row
-            self.Gu = self.U @ GDl.T
             QU, QN = self.U @ self.Q, self.N @ self.Q
             self.uQu = np.sum(QU * self.U, axis=1)
             self.uQn = np.sum(QU * self.N, axis=1)
@@ -137,21 +116,12 @@ class FrontQP:
             self.eps_rows[rows] = j + 1
         self.eps_col = np.maximum(self.eps_rows - 1, 0)
         self.eps_all = np.flatnonzero(self.eps_rows > 0)  # every epsilon row
-        live_eps = self.eps_rows[self.live] > 0
-        self.eps_live_idx = np.flatnonzero(live_eps)  # their places among the live rows
-        # and the places of the live ones among every epsilon row
-        self.eps_live_pos = np.searchsorted(self.eps_all, self.live[live_eps])
-
-    @property
-    def supported(self) -> bool:
-        """Whether at most two variables are free (else the enumeration is used)."""
-        return self.k <= 2
 
     def states(self, p: np.ndarray) -> FrontStates:
         """The state rows of property log-ratios ``p`` (U, 6): among them the optimum under
         the rows without epsilon (the epsilon rows only cut that polygon further)."""
         e = self.e0 + p @ self.Qe.T
-        yp, ok = equality_point(e, self.E, self.keep, self.others, self.pinv)
+        yp, ok = self.point(e)
         f = p @ self.F.T + self.f0
         b = (yp @ self.H + f) @ self.D  # (U, k)
         h = self.h0 + p @ self.P.T
@@ -202,10 +172,8 @@ class FrontQP:
             interval,
         )
 
-    def solve(
-        self, st: FrontStates, state: np.ndarray, eps: np.ndarray
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """Optimal ``y`` (N, 3) and whether feasible (N,) for the pairs of states ``state``
+    def solve(self, st: FrontStates, state: np.ndarray, eps: np.ndarray) -> np.ndarray:
+        """Optimal ``y`` (N, 3; nan where infeasible) for the pairs of states ``state``
         (N,; rows of ``st``) and epsilon values ``eps`` (N, columns).
 
         Where the optimum without the epsilon rows meets them, it is the answer; otherwise one
@@ -230,7 +198,7 @@ class FrontQP:
                 viol[r] = t0 * gd[0] + t1 * gd[1] > ge[r]
                 any_viol |= viol[r]
         if self.k == 1:
-            return self._one(st, state, ok, t0, g0e, ge), ok
+            return self._one(st, state, ok, t0, g0e, ge)
         out = np.flatnonzero(any_viol & ok)
         if out.size:
             so = state[out]
@@ -281,7 +249,7 @@ class FrontQP:
                 found[upd] = True
             t0[out], t1[out] = T0, T1
             ok[out] &= found
-        return self._y(st, state, t0, t1, ok), ok
+        return self._y(st, state, t0, t1, ok)
 
     def _one(
         self,
@@ -292,8 +260,9 @@ class FrontQP:
         g0e: dict[int, np.ndarray],
         ge: dict[int, np.ndarray],
     ) -> np.ndarray:
-        """One free variable: the minimiser clipped to the interval the rows leave, the
-        epsilon rows' bounds added to the state's (``ok`` is updated in place)."""
+        """One free variable: the minimiser ``tstar`` clipped to the interval the rows leave,
+        the epsilon rows' bounds added to the state's; ``y`` (nan where infeasible: not ``ok``
+        so far, or an empty interval)."""
         lo0, hi0, lo, hi = (x.take(state) for x in st.interval)
         for r in self.eps_all:
             if self.fixed[r]:

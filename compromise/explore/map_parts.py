@@ -60,8 +60,8 @@ class Boundary:
 
 
 def row_parts(case: Case, row: Row, condition: str | None = None) -> dict[str, Any]:
-    """The parts of a limit's label (:class:`Boundary`'s ``quantity`` ... ``condition``), for
-    a limit on a quantity; ``{}`` for any other bound."""
+    """For a limit on a quantity, the fields of :class:`Boundary` that rebuild its label in
+    other units (quantity, operator, SI bound, unit, condition); ``{}`` for any other bound."""
     if row.kind != "limit":
         return {}
     return {

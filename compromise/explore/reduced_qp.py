@@ -65,8 +65,9 @@ class States:
     with one free variable, the interval is not empty). One free variable: the interval
     ``[lo0, hi0]`` the rows leave. Two: the live rows' room ``g`` (U, L) within tolerance,
     and along each row's line the point ``d n``, the segment ``[slo0, shi0]`` the other rows
-    leave and whether it is not empty (``edge``). The residuals are stored group-major, so
-    that a gather by state is one contiguous vector per group.
+    leave and whether it is not empty (``edge``); ``yp`` (U, 3): the equalities' point. The
+    residuals are stored group-major, so that a gather by state is one contiguous vector per
+    group.
     """
 
     betaT: np.ndarray
@@ -79,24 +80,67 @@ class States:
     slo0: np.ndarray
     shi0: np.ndarray
     edge: np.ndarray
+    yp: np.ndarray
 
 
-def equality_point(
-    e: np.ndarray, E: np.ndarray, keep: list[int], others: list[int], pinv: np.ndarray
-) -> tuple[np.ndarray, np.ndarray]:
-    """The least-norm solutions ``y_p`` (U, 3) of the independent equality rows ``keep`` of
-    ``E`` (their pseudo-inverse ``pinv``) for right-hand sides ``e`` (U, q), and whether the
-    other rows hold there within the solver's tolerance (U,)."""
-    yp = e[:, keep] @ pinv.T
-    ok = np.ones(e.shape[0], dtype=bool)
-    if others:
-        eo = e[:, others]
-        gap = np.abs(yp @ E[others].T - eo)
-        ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
-    return yp, ok
+class NullSpace:
+    """Equality rows ``E y = e`` as ``y = y_p + D t`` and inequality rows ``G y <= h`` in the
+    free variables ``t``: what the sensitivity's and the front's null-space solvers share.
+
+    Parameters
+    ----------
+    E : (q, 3) array
+        Equality normals (dependent rows are checked, not used, see :meth:`point`).
+    G : (m, 3) array
+        Inequality normals. A row whose normal the equalities fix (``|G_j D|`` below
+        :data:`PARALLEL` of ``|G_j|``) is ``fixed``: it holds or not whatever ``t``. With two
+        free variables, each live row's line has the unit normal ``N``, the direction ``U``,
+        and the other live rows' normals along them ``Gn`` and ``Gu`` (L, L).
+    """
+
+    def __init__(self, E: np.ndarray, G: np.ndarray) -> None:
+        keep = independent_rows(E)
+        self.E, self.keep = E, keep
+        self.others = [j for j in range(E.shape[0]) if j not in keep]
+        if keep:
+            Ek = E[keep]
+            self.pinv = Ek.T @ np.linalg.inv(Ek @ Ek.T)  # (3, rank)
+            self.D = np.linalg.svd(Ek)[2][len(keep) :].T  # (3, k), orthonormal
+        else:
+            self.pinv = np.zeros((3, 0))
+            self.D = np.eye(3)
+        self.k = self.D.shape[1]
+        self.GD = G @ self.D  # (m, k)
+        scale = np.maximum(1.0, np.linalg.norm(G, axis=1))
+        self.fixed = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
+        self.live = np.flatnonzero(~self.fixed)
+        if self.k == 2:
+            self.GD_live = self.GD[self.live]
+            self.norms = np.linalg.norm(self.GD_live, axis=1)
+            self.N = self.GD_live / self.norms[:, None]
+            self.U = np.column_stack([-self.N[:, 1], self.N[:, 0]])
+            self.Gn = self.N @ self.GD_live.T  # (L, L): row i's n against every live row
+            self.Gu = self.U @ self.GD_live.T
+
+    @property
+    def supported(self) -> bool:
+        """Whether at most two variables are free (else the enumeration is used)."""
+        return self.k <= 2
+
+    def point(self, e: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+        """The least-norm solutions ``y_p`` (U, 3) of the independent equality rows for
+        right-hand sides ``e`` (U, q), and whether the other rows hold there within the
+        solver's tolerance (U,)."""
+        yp = e[:, self.keep] @ self.pinv.T
+        ok = np.ones(e.shape[0], dtype=bool)
+        if self.others:
+            eo = e[:, self.others]
+            gap = np.abs(yp @ self.E[self.others].T - eo)
+            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
+        return yp, ok
 
 
-class ReducedQP:
+class ReducedQP(NullSpace):
     """The subproblems of a problem for many weight vectors, in the equalities' null space.
 
     Parameters
@@ -109,35 +153,9 @@ class ReducedQP:
     def __init__(self, problem: Problem, extra_E: np.ndarray | None = None) -> None:
         self.problem = problem
         self.extra = np.zeros((0, 3)) if extra_E is None else np.atleast_2d(extra_E)
-        E = np.vstack([problem.E, self.extra])
-        keep = independent_rows(E)
-        self.E, self.keep = E, keep
-        self.others = [j for j in range(E.shape[0]) if j not in keep]
-        Ek = E[keep]
-        if keep:
-            self.pinv = Ek.T @ np.linalg.inv(Ek @ Ek.T)  # (3, rank)
-            self.D = np.linalg.svd(Ek)[2][len(keep) :].T  # (3, k), orthonormal
-        else:
-            self.pinv = np.zeros((3, 0))
-            self.D = np.eye(3)
-        self.k = self.D.shape[1]
+        super().__init__(np.vstack([problem.E, self.extra]), problem.G)
         self.alpha = problem.A @ self.D  # (K, k)
-        self.GD = problem.G @ self.D  # (m, k)
-        scale = np.maximum(1.0, np.linalg.norm(problem.G, axis=1))
-        self.fixed_rows = np.linalg.norm(self.GD, axis=1) <= PARALLEL * scale
         self.y0 = tie_break_point(problem)
-        if self.k == 2:  # each live row's line: unit normal n, direction u, and the rows along it
-            self.GD_live = self.GD[~self.fixed_rows]
-            self.norms = np.linalg.norm(self.GD_live, axis=1)
-            self.N = self.GD_live / self.norms[:, None]
-            self.U = np.column_stack([-self.N[:, 1], self.N[:, 0]])
-            self.Gn = self.N @ self.GD_live.T  # (L, L): row i's n against every live row
-            self.Gu = self.U @ self.GD_live.T
-
-    @property
-    def supported(self) -> bool:
-        """Whether at most two variables are free (else the enumeration is used)."""
-        return self.k <= 2
 
     def prepare(self, W: np.ndarray) -> tuple[np.ndarray, ...]:
         """Per-sample ``Q`` (S, k, k) and regularisation (S,) for weights ``W`` (S, K)."""
@@ -165,12 +183,12 @@ class ReducedQP:
         e = pr.e0 + p @ pr.Q.T
         if self.extra.shape[0]:
             e = np.concatenate([e, extra_e], axis=1)
-        yp, ok = equality_point(e, self.E, self.keep, self.others, self.pinv)
+        yp, ok = self.point(e)
         Gyp = yp @ pr.G.T
         g0 = h - Gyp  # the rows' room at t = 0
         g = h + FEASIBILITY_TOL * (1.0 + np.abs(h)) - Gyp  # within tolerance
-        if self.fixed_rows.any():
-            ok &= np.all(g[:, self.fixed_rows] >= 0.0, axis=1)
+        if self.fixed.any():
+            ok &= np.all(g[:, self.fixed] >= 0.0, axis=1)
         beta = yp @ pr.A.T + r  # the residuals at t = 0
         c = (yp - self.y0) @ self.D  # the regularisation's pull at t = 0, per unit reg
         U = p.shape[0]
@@ -178,10 +196,10 @@ class ReducedQP:
         lo0 = hi0 = np.zeros(U)
         g_live = d = slo0 = shi0 = empty
         edge = np.zeros((U, 0), dtype=bool)
-        live = ~self.fixed_rows
+        is_live = ~self.fixed
         if self.k == 1:
             a = self.GD[:, 0]
-            up, down = live & (a > 0), live & (a < 0)
+            up, down = is_live & (a > 0), is_live & (a < 0)
             inf = np.full(U, np.inf)
             hi0 = np.min(g0[:, up] / a[up], axis=1) if up.any() else inf
             hi = np.min(g[:, up] / a[up], axis=1) if up.any() else inf
@@ -189,10 +207,10 @@ class ReducedQP:
             lo = np.max(g[:, down] / a[down], axis=1) if down.any() else -inf
             ok &= lo <= hi
         elif self.k == 2:
-            g_live = g[:, live]
-            d = g0[:, live] / self.norms  # each row's line: the point d n nearest the origin
+            g_live = g[:, is_live]
+            d = g0[:, is_live] / self.norms  # each row's line: the point d n nearest the origin
             # for every line i, the other rows j along it: room (U, i, j) and direction Gu (i, j)
-            room0 = g0[:, None, live] - d[:, :, None] * self.Gn
+            room0 = g0[:, None, is_live] - d[:, :, None] * self.Gn
             room = g_live[:, None, :] - d[:, :, None] * self.Gn
             pos, neg = self.Gu > PARALLEL, self.Gu < -PARALLEL
             par = ~pos & ~neg
@@ -214,6 +232,7 @@ class ReducedQP:
             slo0,
             shi0,
             edge,
+            yp,
         )
 
     def values(
@@ -226,10 +245,22 @@ class ReducedQP:
     ) -> np.ndarray:
         """Weighted mismatch (N,) of the subproblems of samples ``sample`` (N,; rows of ``W``
         (S, K) and ``prep``) at states ``state`` (N,; rows of ``states``); ``inf`` where
-        infeasible. The same optimum as :meth:`solve`, from the shared state rows.
+        infeasible. What depends on the state alone comes from the shared state rows.
 
         Every quantity is gathered as one contiguous vector per group (or row), and the sums
         over groups are written out term by term in the groups' order."""
+        return self._optimum(W, prep, states, sample, state)[1]
+
+    def _optimum(
+        self,
+        W: np.ndarray,
+        prep: tuple[np.ndarray, ...],
+        states: States,
+        sample: np.ndarray,
+        state: np.ndarray,
+    ) -> tuple[list[np.ndarray], np.ndarray]:
+        """The optimum's free variables ``t`` (k vectors (N,)) and weighted mismatch (N,;
+        ``inf`` where infeasible) of :meth:`values`."""
         Q, reg = prep[0], prep[1]
         K = W.shape[1]
         WT = np.ascontiguousarray(W.T)
@@ -237,23 +268,25 @@ class ReducedQP:
         beta = [states.betaT[i].take(state) for i in range(K)]
         wb = [Wn[i] * beta[i] for i in range(K)]
         ok = states.ok.take(state)
+        t: list[np.ndarray] = []
         if self.k == 0:
             res = beta
         elif self.k == 1:
             a = self.alpha[:, 0]
             b = _dot(wb, a) + reg.take(sample) * states.c[:, 0].take(state)
-            t = -b / Q[:, 0, 0].take(sample)
-            t = np.minimum(np.maximum(t, states.lo0.take(state)), states.hi0.take(state))
-            res = [beta[i] + t * a[i] for i in range(K)]
+            t0 = -b / Q[:, 0, 0].take(sample)
+            t = [np.minimum(np.maximum(t0, states.lo0.take(state)), states.hi0.take(state))]
+            res = [beta[i] + t[0] * a[i] for i in range(K)]
         else:
             t0, t1, inside = self._two_values(prep, wb, reg, states, sample, state)
             ok &= inside
+            t = [t0, t1]
             res = [beta[i] + (t0 * self.alpha[i, 0] + t1 * self.alpha[i, 1]) for i in range(K)]
         J = Wn[0] * (res[0] * res[0])
         for i in range(1, K):
             J += Wn[i] * (res[i] * res[i])
         J[~ok] = np.inf
-        return J
+        return t, J
 
     def _two_values(
         self,
@@ -264,8 +297,9 @@ class ReducedQP:
         sample: np.ndarray,
         state: np.ndarray,
     ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """:meth:`_two` from the shared state rows: the point ``t`` (two vectors (N,)) and
-        whether the subproblem is feasible."""
+        """Two free variables: the unconstrained minimiser where it meets every row, else the
+        best edge (see the module docstring); the point ``t`` (two vectors (N,)) and whether
+        the subproblem is feasible."""
         Q = prep[0]
         rg = reg.take(sample)
         b0 = _dot(wb, self.alpha[:, 0]) + rg * states.c[:, 0].take(state)
@@ -281,7 +315,7 @@ class ReducedQP:
         out = np.flatnonzero(~found)
         if out.size == 0:
             return t0, t1, found
-        # as in _two: along each violated row's line, the minimiser clipped to its segment;
+        # along each violated row's line, the minimiser clipped to its segment;
         # computed for the (subproblem, row) pairs where that segment is not empty
         uQu, uQn, nQn = prep[2], prep[3], prep[4]  # (S, L)
         every = out.size == found.size
@@ -305,7 +339,7 @@ class ReducedQP:
             np.maximum(-(d * uqn + ub) / uqu, states.slo0.take(ku)), states.shi0.take(ku)
         )
         psi = d * d * nQn.take(ks) + 2.0 * d * sv * uqn + sv * sv * uqu + 2.0 * (d * nb + sv * ub)
-        # the least psi of each subproblem (the first row of equals, as _two's strict "<")
+        # the least psi of each subproblem (the first row of equals)
         flat = pi * L + pj  # increasing: the pairs are in row-major order
         grid = np.full(out.size * L, np.inf)
         grid[flat] = psi
@@ -328,124 +362,18 @@ class ReducedQP:
     ) -> tuple[np.ndarray, np.ndarray]:
         """Optimal ``y`` (S, R, 3) and weighted mismatch (S, R) for weights ``W`` (S, K) and
         property log-ratios ``p`` (S, R, 6); ``inf`` where infeasible (``y`` then nan)."""
-        pr = self.problem
-        Q, reg = prep[0], prep[1]
         S, R = p.shape[0], p.shape[1]
-        p2 = p.reshape(S * R, -1)  # products over all states at once (2-D, one BLAS call)
-        r = p2 @ pr.B.T  # (S R, K)
-        h = pr.h0 + p2 @ pr.P.T  # (S R, m)
-        e = pr.e0 + p2 @ pr.Q.T
+        ex = None
         if self.extra.shape[0]:
-            ee = np.broadcast_to(extra_e, (S, R, self.extra.shape[0])).reshape(S * R, -1)
-            e = np.concatenate([e, ee], axis=1)
-        yp = e[:, self.keep] @ self.pinv.T  # (S R, 3)
-        ok = np.ones(S * R, dtype=bool)
-        if self.others:
-            eo = e[:, self.others]
-            gap = np.abs(yp @ self.E[self.others].T - eo)
-            ok &= np.all(gap <= FEASIBILITY_TOL * (1.0 + np.abs(eo)), axis=1)
-        Gyp = yp @ pr.G.T
-        g0 = (h - Gyp).reshape(S, R, -1)  # the rows' room at t = 0
-        g = (h + FEASIBILITY_TOL * (1.0 + np.abs(h)) - Gyp).reshape(S, R, -1)  # within tolerance
-        ok = ok.reshape(S, R)
-        if self.fixed_rows.any():
-            ok &= np.all(g[..., self.fixed_rows] >= 0.0, axis=2)
-        beta = (yp @ pr.A.T + r).reshape(S, R, -1)  # the residuals at t = 0
-        Wb = (beta * W[:, None, :]).reshape(S * R, -1)
-        b = (Wb @ self.alpha + np.repeat(reg, R)[:, None] * ((yp - self.y0) @ self.D)).reshape(
-            S, R, -1
-        )
-        if self.k == 0:
-            t = np.zeros((S, R, 0))
-        elif self.k == 1:
-            t, feasible = self._one(Q, b, g0, g)
-            ok &= feasible
-        else:
-            t, feasible = self._two(Q, b, g0, g)
-            ok &= feasible
-        y = yp + t.reshape(S * R, -1) @ self.D.T
-        res = (y @ pr.A.T + r).reshape(S, R, -1)
-        J = np.where(ok, np.sum(W[:, None, :] * res**2, axis=2), np.inf)
-        y = y.reshape(S, R, 3)
-        y[~ok] = np.nan
-        return y, J
-
-    def _one(
-        self, Q: np.ndarray, b: np.ndarray, g0: np.ndarray, g: np.ndarray
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """One free variable: the minimiser clipped to the rows' interval."""
-        a = self.GD[:, 0]
-        live = ~self.fixed_rows
-        up, down = live & (a > 0), live & (a < 0)
-        S, R = b.shape[0], b.shape[1]
-        inf = np.full((S, R), np.inf)
-        hi0 = np.min(g0[..., up] / a[up], axis=2) if up.any() else inf
-        hi = np.min(g[..., up] / a[up], axis=2) if up.any() else inf
-        lo0 = np.max(g0[..., down] / a[down], axis=2) if down.any() else -inf
-        lo = np.max(g[..., down] / a[down], axis=2) if down.any() else -inf
-        tstar = -b[..., 0] / Q[:, None, 0, 0]
-        t = np.minimum(np.maximum(tstar, lo0), hi0)
-        return t[..., None], lo <= hi
-
-    def _two(
-        self, Q: np.ndarray, b: np.ndarray, g0: np.ndarray, g: np.ndarray
-    ) -> tuple[np.ndarray, np.ndarray]:
-        """Two free variables: the unconstrained minimiser, or the best edge."""
-        GD = self.GD
-        S, R = b.shape[0], b.shape[1]
-        q00, q01, q11 = Q[:, None, 0, 0], Q[:, None, 0, 1], Q[:, None, 1, 1]
-        b0, b1 = b[..., 0], b[..., 1]
-        det = q00 * q11 - q01 * q01
-        tstar = np.stack([(q01 * b1 - q11 * b0) / det, (q01 * b0 - q00 * b1) / det], axis=2)
-        live = np.flatnonzero(~self.fixed_rows)
-        at = (tstar.reshape(S * R, 2) @ GD[live].T).reshape(S, R, -1)
-        violated = at > g[..., live]  # (S, R, rows)
-        inside = ~violated.any(axis=2)
-        if inside.all():
-            return tstar, inside
-        # the optimum lies on a row that the unconstrained minimiser violates (were all rows
-        # binding there met at the minimiser, it would be the optimum); along each such row's
-        # line, the minimiser clipped to the segment the other rows leave
-        t = tstar.reshape(S * R, 2).copy()
-        best = np.full(S * R, np.inf)
-        found = inside.reshape(-1).copy()
-        flat_g0, flat_g = g0.reshape(S * R, -1), g.reshape(S * R, -1)
-        bs = b.reshape(S * R, 2)
-        viol = violated.reshape(S * R, -1)
-        for i, j in enumerate(live):
-            cols = np.flatnonzero(viol[:, i])
-            if cols.size == 0:
-                continue
-            c = float(np.linalg.norm(GD[j]))
-            n = GD[j] / c
-            u = np.array([-n[1], n[0]])
-            d = flat_g0[cols, j] / c  # the line's point nearest the origin: d n
-            Gn, Gu = GD[live] @ n, GD[live] @ u  # (rows,)
-            room0 = flat_g0[cols][:, live] - d[:, None] * Gn  # (cols, rows)
-            room = flat_g[cols][:, live] - d[:, None] * Gn
-            pos, neg = Gu > PARALLEL, Gu < -PARALLEL
-            par = ~pos & ~neg
-            inf = np.full(cols.size, np.inf)
-            shi0 = np.min(room0[:, pos] / Gu[pos], axis=1) if pos.any() else inf
-            shi = np.min(room[:, pos] / Gu[pos], axis=1) if pos.any() else inf
-            slo0 = np.max(room0[:, neg] / Gu[neg], axis=1) if neg.any() else -inf
-            slo = np.max(room[:, neg] / Gu[neg], axis=1) if neg.any() else -inf
-            feasible = slo <= shi
-            if par.any():
-                feasible &= np.all(room[:, par] >= 0.0, axis=1)
-            # along t = d n + s u: psi = s^2 u'Qu + 2 s u'(d Q n + b) + const
-            q = Q[cols // R]
-            Qu, Qn = q @ u, q @ n  # (cols, 2)
-            uQu, uQn, nQn = Qu @ u, Qu @ n, Qn @ n
-            ub, nb = bs[cols] @ u, bs[cols] @ n
-            sv = np.minimum(np.maximum(-(d * uQn + ub) / uQu, slo0), shi0)
-            psi = d * d * nQn + 2.0 * d * sv * uQn + sv * sv * uQu + 2.0 * (d * nb + sv * ub)
-            better = feasible & (psi < best[cols])
-            upd = cols[better]
-            best[upd] = psi[better]
-            t[upd] = d[better, None] * n + sv[better, None] * u
-            found[cols] |= feasible
-        return t.reshape(S, R, 2), found.reshape(S, R)
+            ex = np.broadcast_to(extra_e, (S, R, self.extra.shape[0])).reshape(S * R, -1)
+        states = self.states(p.reshape(S * R, -1), ex)
+        state = np.arange(S * R)
+        t, J = self._optimum(W, prep, states, np.repeat(np.arange(S), R), state)
+        y = states.yp.copy()
+        for i, ti in enumerate(t):
+            y += ti[:, None] * self.D[:, i]
+        y[~np.isfinite(J)] = np.nan
+        return y.reshape(S, R, 3), J.reshape(S, R)
 
 
 def _dot(terms: list[np.ndarray], coef: np.ndarray) -> np.ndarray:

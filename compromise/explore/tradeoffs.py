@@ -190,13 +190,6 @@ class Scalarised:
         )
         #: the null-space solver sharing the fluid state (None: the enumeration only)
         self.fast = fast if fast.supported else None
-        # the objective's terms as rows: values y @ Ta.T + p @ Tb.T (+ Tc), weights Tw
-        terms_ = [(w, a, b, 0.0) for w, a, b in quad] + lin
-        self._Ta = np.array([t[1] for t in terms_]).reshape(len(terms_), nd)
-        self._Tb = np.array([t[2] for t in terms_]).reshape(len(terms_), npr)
-        self._Tc = np.array([t[3] for t in terms_], dtype=float)
-        self._Tw = np.array([t[0] for t in terms_], dtype=float)
-        self._nq = len(quad)
 
     def solve(self, p: np.ndarray, eps: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
         """Optimal ``y`` (N, 3) and scalarised objective (N,) for property log-ratios ``p``
@@ -211,27 +204,25 @@ class Scalarised:
                 h[:, rows] += eps[:, j : j + 1]
         e = pr.e0 + p @ pr.Q.T
         y = self.qp.solve(p @ self.F.T + self.f0, h, e).y
+        return y, self.objective(y, p)
+
+    def objective(self, y: np.ndarray, p: np.ndarray) -> np.ndarray:
+        """The scalarised objective (N,) at designs ``y`` (N, 3; nan: infeasible, giving
+        ``inf``) and property log-ratios ``p`` (N, 6)."""
         J = np.zeros(p.shape[0])
         for w, a, b in self.quad:
             J += w * (y @ a + p @ b) ** 2
         for w, a, b, c0 in self.lin:
             J += w * (y @ a + p @ b + c0)
-        return y, np.where(np.isfinite(J), J, np.inf)
+        return np.where(np.isfinite(J), J, np.inf)
 
     def solve_indexed(self, table: np.ndarray, index: np.ndarray, eps: np.ndarray) -> np.ndarray:
         """The scalarised objective (N,) of :meth:`solve` for property rows ``table[index]``
         (distinct rows ``table`` (U, 6), ``index`` (N,)) and epsilon values ``eps`` (N, c),
         by the null-space solver: what depends on the state alone once per distinct row."""
         assert self.fast is not None
-        st = self.fast.states(table)
-        y, ok = self.fast.solve(st, index, eps)
-        const = table @ self._Tb.T + self._Tc  # (U, terms)
-        v = y @ self._Ta.T + const[index]  # (N, terms)
-        nq = self._nq
-        J = np.sum(self._Tw[:nq] * v[:, :nq] ** 2, axis=1) + np.sum(
-            self._Tw[nq:] * v[:, nq:], axis=1
-        )
-        return np.where(ok & np.isfinite(J), J, np.inf)
+        y = self.fast.solve(self.fast.states(table), index, eps)
+        return self.objective(y, table[index])
 
 
 def check_bounded(scal: Scalarised, axes: list[Axis], primary: int, case: Case) -> None:

@@ -65,6 +65,22 @@ def convert(value: float | None, unit: str, system: str) -> tuple[float | None, 
     return (None if value is None else value * factor), name
 
 
+def celsius_to(value: Any, system: str) -> tuple[Any, str]:
+    """A temperature (or an array of them) given in degC, shown in ``system``:
+    ``(value, "degC")``, or in degF (``F = C x 9/5 + 32``).
+
+    Examples
+    --------
+    >>> celsius_to(25.0, "us")
+    (77.0, 'degF')
+    >>> celsius_to(25.0, "si")
+    (25.0, 'degC')
+    """
+    if system == "us":
+        return value * 9 / 5 + 32, "degF"
+    return value, "degC"
+
+
 def small_unit(values: list[float], unit: str) -> tuple[str, float]:
     """For model-scale values in a US unit: a smaller unit when all of them are small."""
     if unit not in SMALL:
@@ -97,8 +113,7 @@ def _limits(limits: dict[str, Any], units: dict[str, str], system: str) -> None:
 def _design(d: dict[str, Any], system: str) -> None:
     if system != "us" or d is None:
         return
-    d["temperature"] = d["temperature"] * 9 / 5 + 32
-    d["temperature_unit"] = "degF"
+    d["temperature"], d["temperature_unit"] = celsius_to(d["temperature"], system)
     d["pressure_si"] = d["pressure"]
     d["pressure"], d["pressure_unit"] = convert(d["pressure"], "Pa", system)
 
@@ -160,6 +175,6 @@ def to_display(data: dict[str, Any], system: str) -> dict[str, Any]:
             row["values"] = [convert(v, unit, system)[0] for v in row["values"]]
             row["unit"] = US[unit][0]
         elif row.get("section") == "design" and row.get("name") == "temperature":
-            row["values"] = [None if v is None else v * 9 / 5 + 32 for v in row["values"]]
+            row["values"] = [None if v is None else celsius_to(v, system)[0] for v in row["values"]]
             row["unit"] = "degF"
     return out

@@ -22,7 +22,7 @@ from dataclasses import dataclass, field
 from typing import TYPE_CHECKING
 
 from compromise.explore.front import Front
-from compromise.presentation.display import US, convert, small_unit
+from compromise.presentation.display import US, celsius_to, convert, small_unit
 
 if TYPE_CHECKING:
     import numpy as np
@@ -35,23 +35,9 @@ if TYPE_CHECKING:
 BAR = 1e5
 
 
-def celsius_to(value: float, system: str) -> tuple[float, str]:
-    """A temperature given in degC, shown in ``system``: ``(value, "degC")`` or in degF.
-
-    Examples
-    --------
-    >>> celsius_to(25.0, "us")
-    (77.0, 'degF')
-    >>> celsius_to(25.0, "si")
-    (25.0, 'degC')
-    """
-    if system == "us":
-        return value * 9 / 5 + 32, "degF"
-    return value, "degC"
-
-
 def fahrenheit_to_celsius(value: float) -> float:
-    """The inverse of :func:`celsius_to` in US units (for placing degF ticks on a degC axis).
+    """The inverse of :func:`~compromise.presentation.display.celsius_to` in US units (for
+    placing degF ticks on a degC axis).
 
     Examples
     --------
@@ -62,11 +48,10 @@ def fahrenheit_to_celsius(value: float) -> float:
 
 
 def pascal_to(value: float, system: str) -> tuple[float, str]:
-    """A pressure given in Pa, shown in ``system``: ``(value, "Pa")`` or in psi."""
-    if system != "us":
-        return value, "Pa"
-    name, factor = US["Pa"]
-    return value * factor, name
+    """A pressure given in Pa, shown in ``system``: ``(value, "Pa")`` or in psi
+    (:func:`~compromise.presentation.display.convert`)."""
+    shown, unit = convert(value, "Pa", system)
+    return float(shown if shown is not None else value), unit
 
 
 @dataclass(frozen=True)
@@ -161,7 +146,8 @@ def map_axis(dmap: DesignMap, which: int, system: str) -> tuple[str, np.ndarray]
     if system != "us":
         return unit, grid
     if dmap.axes[which] == "temperature":
-        return "degF", grid * 9 / 5 + 32
+        shown, unit = celsius_to(grid, system)
+        return unit, shown
     if dmap.axes[which] == "pressure":
         return pascal_to(1.0, system)[1], grid * (BAR * US["Pa"][1])
     return unit, grid

@@ -41,7 +41,7 @@ def _short(design: Any, system: str = "si") -> str:
 
 def _celsius(kelvin: float, system: str) -> float:
     """A design's temperature [K] in degC, or in degF in US units."""
-    from compromise.presentation.explore_display import celsius_to
+    from compromise.presentation.display import celsius_to
 
     return celsius_to(kelvin - 273.15, system)[0]
 
@@ -368,7 +368,8 @@ def write_sensitivity(
 
 def _sample_column(name: str, system: str) -> Any:
     """How a column of the samples' optima (temperature [degC], pressure [Pa]) is shown."""
-    from compromise.presentation.explore_display import celsius_to, pascal_to
+    from compromise.presentation.display import celsius_to
+    from compromise.presentation.explore_display import pascal_to
 
     if system == "us" and name == "temperature":
         return lambda v: celsius_to(v, system)[0]

@@ -51,7 +51,8 @@ def short_label(design: Design, system: str = "si") -> str:
         ratios += f", distortion {design.distortion:.2f}"
     pressurised = abs(design.pressure / 101325.0 - 1.0) > 0.01  # or evacuated
     if system == "us":
-        from compromise.presentation.explore_display import celsius_to, pascal_to
+        from compromise.presentation.display import celsius_to
+        from compromise.presentation.explore_display import pascal_to
 
         t, t_unit = celsius_to(design.temperature - 273.15, system)
         state = f"{t:.1f} {t_unit}"

@@ -102,7 +102,8 @@ def _fahrenheit_axis(ax: Axes, which: str, lo: float, hi: float) -> None:
     """A temperature axis drawn in degC (the map's data) ticked at round degF values."""
     from matplotlib.ticker import FixedFormatter, FixedLocator, MaxNLocator, NullLocator
 
-    from compromise.presentation.explore_display import celsius_to, fahrenheit_to_celsius
+    from compromise.presentation.display import celsius_to
+    from compromise.presentation.explore_display import fahrenheit_to_celsius
 
     axis = ax.xaxis if which == "x" else ax.yaxis
     f_lo, f_hi = celsius_to(lo, "us")[0], celsius_to(hi, "us")[0]
@@ -529,7 +530,8 @@ def _model_bounds(
     centred on the window's stretch of that edge; return the labels' boxes in unit
     coordinates (for the other labels to keep clear of). Temperatures in degF and pressures
     in psi in US units."""
-    from compromise.presentation.explore_display import BAR, celsius_to, pascal_to
+    from compromise.presentation.display import celsius_to
+    from compromise.presentation.explore_display import BAR, pascal_to
 
     if not feasible.any():
         return []

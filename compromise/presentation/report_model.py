@@ -11,6 +11,7 @@ from __future__ import annotations
 import base64
 from typing import Any
 
+from compromise.presentation.display import celsius_to
 from compromise.presentation.text import fmt
 from compromise.units import format_ratio
 
@@ -119,7 +120,7 @@ def svg_bytes(fig: Any, case: Any) -> bytes:
 def temp(value_c: float | None, system: str) -> str:
     if value_c is None:
         return "-"
-    return f"{value_c * 9 / 5 + 32:.1f}" if system == "us" else f"{value_c:.1f}"
+    return f"{celsius_to(value_c, system)[0]:.1f}"
 
 
 def t_unit(system: str) -> str:
